@@ -1,0 +1,56 @@
+import { cp } from 'node:fs/promises'
+import { resolve } from 'node:path'
+import { templateCompilerOptions } from '@tresjs/core'
+import pkg from './package.json' with { type: 'json' }
+
+// The project root is the source directory (no app/ folder): pages/, components/, stores/ at the top.
+export default defineNuxtConfig({
+  compatibilityDate: '2026-11-01',
+  devtools: { enabled: false },
+  telemetry: false,
+  modules: ['@pinia/nuxt', '@nuxtjs/tailwindcss', 'nuxt-auth-utils'],
+  css: ['~/assets/css/main.css'],
+  vue: { compilerOptions: templateCompilerOptions.compilerOptions },
+  build: { transpile: [/@tresjs/] },
+  typescript: { strict: true, typeCheck: false },
+  app: {
+    head: {
+      htmlAttrs: { lang: 'en' },
+      title: 'Isthmus',
+      meta: [
+        { name: 'viewport', content: 'width=device-width, initial-scale=1' },
+        { name: 'description', content: 'Shapes, gravity and joining kinematics of bilobed small bodies.' },
+      ],
+      link: [{ rel: 'icon', type: 'image/svg+xml', href: '/favicon.svg' }],
+    },
+  },
+  runtimeConfig: {
+    version: pkg.version,
+    // Everything below is read from the environment at start by server/utils/config.ts,
+    // so the built server honours DATABASE_URL, UPLOADS_DIR, SMTP_URL, ... as documented.
+    session: { maxAge: 60 * 60 * 24 * 7 },
+  },
+  tailwindcss: { configPath: 'tailwind.config.ts', cssPath: false },
+  nitro: {
+    externals: { external: ['manifold-3d'] },
+    experimental: { tasks: false },
+    hooks: {
+      // Migrations live beside the built server entry so the built app finds them (see STACK.md).
+      async compiled(nitro) {
+        await cp(resolve(nitro.options.rootDir, 'server/db/migrations'), resolve(nitro.options.output.serverDir, 'migrations'), { recursive: true })
+      },
+    },
+  },
+  vite: {
+    optimizeDeps: { include: ['@tresjs/cientos', 'three', 'three-mesh-bvh'] },
+    plugins: [
+      {
+        name: 'isthmus-hmr-loopback',
+        enforce: 'post',
+        config(config) {
+          if (config.server?.hmr && typeof config.server.hmr === 'object') config.server.hmr.host = '127.0.0.1'
+        },
+      },
+    ],
+  },
+})
