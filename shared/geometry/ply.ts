@@ -1,0 +1,388 @@
+/**
+ * Stanford PLY reader: ascii, binary_little_endian and binary_big_endian bodies; coordinates of
+ * any scalar type (float, double, integers); extra vertex properties in any order; other elements
+ * before or after (skipped correctly, list properties included); the face list named
+ * `vertex_indices` or `vertex_index` with any integer count and index types; polygons are
+ * fan-triangulated. `comment` / `obj_info` header lines are ignored; in ascii bodies `#` starts a
+ * comment to the end of the line and lines starting with `comment` are skipped.
+ * Declared counts are checked against what the file size can hold before anything is allocated.
+ */
+import { GeometryError } from './types'
+import type { TriMesh } from './types'
+import { U32Builder, checkIndexRange, isSep, latin1, parseNumber, tokenEnd } from './readers'
+
+export interface PlyLimits { maxVertices: number, maxFaces: number }
+
+/** Scalar type codes: size in bytes and whether integral. */
+const TYPES: Record<string, { code: number, size: number, int: boolean }> = {
+  char: { code: 0, size: 1, int: true }, int8: { code: 0, size: 1, int: true },
+  uchar: { code: 1, size: 1, int: true }, uint8: { code: 1, size: 1, int: true },
+  short: { code: 2, size: 2, int: true }, int16: { code: 2, size: 2, int: true },
+  ushort: { code: 3, size: 2, int: true }, uint16: { code: 3, size: 2, int: true },
+  int: { code: 4, size: 4, int: true }, int32: { code: 4, size: 4, int: true },
+  uint: { code: 5, size: 4, int: true }, uint32: { code: 5, size: 4, int: true },
+  float: { code: 6, size: 4, int: false }, float32: { code: 6, size: 4, int: false },
+  double: { code: 7, size: 8, int: false }, float64: { code: 7, size: 8, int: false },
+}
+const SIZES = [1, 1, 2, 2, 4, 4, 4, 8]
+
+interface Prop { name: string, type: number, list: boolean, countType: number }
+interface Element { name: string, count: number, props: Prop[] }
+
+export interface PlyHeader {
+  format: 'ascii' | 'binary_little_endian' | 'binary_big_endian'
+  elements: Element[]
+  /** Byte offset where the body starts. */
+  bodyStart: number
+}
+
+function bad(what: string, line?: number): never {
+  throw new GeometryError('bad-header', `readPly: ${what}${line ? ` (header line ${line})` : ''}`, line ? [{ path: `header.line[${line}]`, message: what }] : [])
+}
+
+const MAX_HEADER = 1 << 20
+
+/** Parse the PLY header (ASCII lines up to and including `end_header`). */
+export function parsePlyHeader(b: Uint8Array): PlyHeader {
+  let i = 0
+  let lineNo = 0
+  let format: PlyHeader['format'] | undefined
+  const elements: Element[] = []
+  const limit = Math.min(b.length, MAX_HEADER)
+  for (;;) {
+    if (i >= limit) {
+      if (b.length > MAX_HEADER) bad(`no end_header within the first ${MAX_HEADER} bytes`)
+      throw new GeometryError('truncated', 'readPly: the file ends inside the header (no end_header)')
+    }
+    let e = b.indexOf(10, i)
+    if (e < 0 || e > limit) e = limit
+    lineNo++
+    let le = e
+    if (le > i && b[le - 1] === 13) le--
+    for (let k = i; k < le; k++) {
+      const c = b[k]!
+      if (c < 32 && c !== 9) bad('binary bytes in the header', lineNo)
+    }
+    const text = latin1(b, i, le).trim()
+    i = e + 1
+    const w = text.split(/[ \t]+/)
+    const kw = w[0]
+    if (lineNo === 1) {
+      if (text !== 'ply') bad('missing "ply" magic', 1)
+      continue
+    }
+    if (kw === '' || kw === 'comment' || kw === 'obj_info') continue
+    if (kw === 'format') {
+      if (w[1] !== 'ascii' && w[1] !== 'binary_little_endian' && w[1] !== 'binary_big_endian') bad('unknown format (ascii, binary_little_endian, binary_big_endian)', lineNo)
+      if (w[2] !== '1.0' && w[2] !== '1') bad('unsupported format version (1.0 expected)', lineNo)
+      format = w[1]
+    } else if (kw === 'element') {
+      if (w.length !== 3 || !/^\d+$/.test(w[2]!)) bad('malformed element line', lineNo)
+      const count = Number(w[2])
+      if (!Number.isSafeInteger(count)) bad('element count too large', lineNo)
+      elements.push({ name: w[1]!, count, props: [] })
+    } else if (kw === 'property') {
+      const el = elements[elements.length - 1]
+      if (!el) bad('property before any element', lineNo)
+      if (w[1] === 'list') {
+        const ct = TYPES[w[2]!]
+        const it = TYPES[w[3]!]
+        if (w.length !== 5 || !ct || !it) bad('malformed list property', lineNo)
+        if (!ct.int) bad('list count type must be an integer type', lineNo)
+        el.props.push({ name: w[4]!, type: it.code, list: true, countType: ct.code })
+      } else {
+        const t = TYPES[w[1]!]
+        if (w.length !== 3 || !t) bad('malformed property line or unknown type', lineNo)
+        el.props.push({ name: w[2]!, type: t.code, list: false, countType: 0 })
+      }
+    } else if (kw === 'end_header') {
+      break
+    } else {
+      bad('unknown header keyword', lineNo)
+    }
+  }
+  if (!format) bad('no format line')
+  return { format, elements, bodyStart: i }
+}
+
+function elementMinBytes(el: Element, ascii: boolean, isFace: boolean): number {
+  let n = 0
+  for (const p of el.props) {
+    if (ascii) n += p.list ? 2 + (isFace ? 6 : 0) : 2
+    else n += p.list ? SIZES[p.countType]! + (isFace ? 3 * SIZES[p.type]! : 0) : SIZES[p.type]!
+  }
+  return Math.max(n, ascii ? 1 : 0)
+}
+
+/** Read one scalar of type `t` at byte offset `o`. */
+function readScalar(dv: DataView, o: number, t: number, le: boolean): number {
+  switch (t) {
+    case 0: return dv.getInt8(o)
+    case 1: return dv.getUint8(o)
+    case 2: return dv.getInt16(o, le)
+    case 3: return dv.getUint16(o, le)
+    case 4: return dv.getInt32(o, le)
+    case 5: return dv.getUint32(o, le)
+    case 6: return dv.getFloat32(o, le)
+    default: return dv.getFloat64(o, le)
+  }
+}
+
+/** Parse PLY bytes. See `readMesh` for the errors. */
+export function readPly(b: Uint8Array, limits: PlyLimits): { mesh: TriMesh, sourceFaceCount: number, triangulatedPolygons: number } {
+  const h = parsePlyHeader(b)
+  const ascii = h.format === 'ascii'
+  const vEl = h.elements.find(e => e.name === 'vertex')
+  const fEl = h.elements.find(e => e.name === 'face')
+  if (!vEl) bad('no "vertex" element')
+  if (!fEl) bad('no "face" element')
+  const xyz = ['x', 'y', 'z'].map(n => vEl.props.findIndex(p => p.name === n && !p.list))
+  if (xyz.some(k => k < 0)) bad('vertex element lacks x, y or z scalar properties')
+  const fi = fEl.props.findIndex(p => p.list && (p.name === 'vertex_indices' || p.name === 'vertex_index'))
+  if (fi < 0) bad('face element has no vertex_indices / vertex_index list')
+  if (!TYPES_INT[fEl.props[fi]!.type]) bad('face index type must be an integer type')
+  if (vEl.count > limits.maxVertices) throw new GeometryError('too-large', `readPly: ${vEl.count} vertices declared, limit ${limits.maxVertices}`)
+  if (fEl.count > limits.maxFaces) throw new GeometryError('too-large', `readPly: ${fEl.count} faces declared, limit ${limits.maxFaces}`)
+  // what the remaining bytes can hold, before allocating anything
+  let minBytes = 0
+  for (const el of h.elements) minBytes += el.count * elementMinBytes(el, ascii, el === fEl)
+  const avail = b.length - h.bodyStart
+  if (minBytes > avail) {
+    throw new GeometryError('truncated', `readPly: the header declares ${vEl.count} vertices and ${fEl.count} faces, which need at least ${minBytes} bytes, but the body has ${avail}`)
+  }
+  return ascii ? readAsciiBody(b, h, vEl, fEl, xyz, fi, limits) : readBinaryBody(b, h, vEl, fEl, xyz, fi, limits)
+}
+
+const TYPES_INT = [true, true, true, true, true, true, false, false]
+
+function truncated(what: string): never {
+  throw new GeometryError('truncated', `readPly: the file ends inside ${what}`)
+}
+
+function readBinaryBody(b: Uint8Array, h: PlyHeader, vEl: Element, fEl: Element, xyz: number[], fi: number, limits: PlyLimits) {
+  const le = h.format === 'binary_little_endian'
+  const dv = new DataView(b.buffer, b.byteOffset, b.byteLength)
+  const end = b.length
+  let o = h.bodyStart
+  const positions = new Float64Array(vEl.count * 3)
+  const idx = new U32Builder(fEl.count * 3)
+  let sourceFaces = 0
+  let triangulated = 0
+  for (const el of h.elements) {
+    const fixed = el.props.every(p => !p.list)
+    if (el === vEl && fixed) {
+      // fixed stride: offsets of x, y, z
+      const offs: number[] = []
+      let stride = 0
+      for (const p of el.props) { offs.push(stride); stride += SIZES[p.type]! }
+      if (o + stride * el.count > end) truncated('the vertex element')
+      const [ox, oy, oz] = xyz.map(k => offs[k]!)
+      const [tx, ty, tz] = xyz.map(k => el.props[k]!.type)
+      if (tx === 6 && ty === 6 && tz === 6) {
+        for (let v = 0; v < el.count; v++, o += stride) {
+          positions[3 * v] = dv.getFloat32(o + ox!, le)
+          positions[3 * v + 1] = dv.getFloat32(o + oy!, le)
+          positions[3 * v + 2] = dv.getFloat32(o + oz!, le)
+        }
+      } else if (tx === 7 && ty === 7 && tz === 7) {
+        for (let v = 0; v < el.count; v++, o += stride) {
+          positions[3 * v] = dv.getFloat64(o + ox!, le)
+          positions[3 * v + 1] = dv.getFloat64(o + oy!, le)
+          positions[3 * v + 2] = dv.getFloat64(o + oz!, le)
+        }
+      } else {
+        for (let v = 0; v < el.count; v++, o += stride) {
+          positions[3 * v] = readScalar(dv, o + ox!, tx!, le)
+          positions[3 * v + 1] = readScalar(dv, o + oy!, ty!, le)
+          positions[3 * v + 2] = readScalar(dv, o + oz!, tz!, le)
+        }
+      }
+    } else if (fixed) {
+      let stride = 0
+      for (const p of el.props) stride += SIZES[p.type]!
+      o += stride * el.count
+      if (o > end) truncated(`element "${sanitize(el.name)}"`)
+    } else if (el === fEl && el.props.length === 1 && el.props[0]!.countType === 1 && SIZES[el.props[0]!.type] === 4) {
+      // the common face layout: uchar count, 4-byte indices
+      const signed = el.props[0]!.type === 4
+      for (let f = 0; f < el.count; f++) {
+        if (o >= end) truncated('the face element')
+        const n = b[o]!
+        o++
+        if (o + 4 * n > end) truncated('the face element')
+        if (n < 3) throw badFace(f, n)
+        sourceFaces++
+        if (n > 3) triangulated++
+        const add = 3 * (n - 2)
+        if (idx.n + add > idx.a.length) idx.grow(idx.n + add)
+        if ((idx.n + add) / 3 > limits.maxFaces) throw new GeometryError('too-large', `readPly: more than ${limits.maxFaces} triangles`)
+        const a = idx.a
+        const v0 = signed ? dv.getInt32(o, le) : dv.getUint32(o, le)
+        if (v0 < 0) throw negIndex(f)
+        let prev = signed ? dv.getInt32(o + 4, le) : dv.getUint32(o + 4, le)
+        if (prev < 0) throw negIndex(f)
+        for (let k = 2; k < n; k++) {
+          const cur = signed ? dv.getInt32(o + 4 * k, le) : dv.getUint32(o + 4 * k, le)
+          if (cur < 0) throw negIndex(f)
+          a[idx.n++] = v0; a[idx.n++] = prev; a[idx.n++] = cur
+          prev = cur
+        }
+        o += 4 * n
+      }
+    } else {
+      // general walk, item by item
+      for (let item = 0; item < el.count; item++) {
+        for (let pi = 0; pi < el.props.length; pi++) {
+          const p = el.props[pi]!
+          if (!p.list) {
+            const s = SIZES[p.type]!
+            if (o + s > end) truncated(`element "${sanitize(el.name)}"`)
+            if (el === vEl) {
+              const k = xyz.indexOf(pi)
+              if (k >= 0) positions[3 * item + k] = readScalar(dv, o, p.type, le)
+            }
+            o += s
+            continue
+          }
+          const cs = SIZES[p.countType]!
+          if (o + cs > end) truncated(`element "${sanitize(el.name)}"`)
+          const n = readScalar(dv, o, p.countType, le)
+          o += cs
+          if (n < 0) throw new GeometryError('bad-face', `readPly: negative list length in element "${sanitize(el.name)}" item ${item}`)
+          const s = SIZES[p.type]!
+          if (o + s * n > end) truncated(`element "${sanitize(el.name)}"`)
+          if (el === fEl && pi === fi) {
+            if (n < 3) throw badFace(item, n)
+            sourceFaces++
+            if (n > 3) triangulated++
+            const add = 3 * (n - 2)
+            if (idx.n + add > idx.a.length) idx.grow(idx.n + add)
+            if ((idx.n + add) / 3 > limits.maxFaces) throw new GeometryError('too-large', `readPly: more than ${limits.maxFaces} triangles`)
+            const a = idx.a
+            const v0 = readScalar(dv, o, p.type, le)
+            let prev = readScalar(dv, o + s, p.type, le)
+            if (v0 < 0 || prev < 0) throw negIndex(item)
+            for (let k = 2; k < n; k++) {
+              const cur = readScalar(dv, o + s * k, p.type, le)
+              if (cur < 0) throw negIndex(item)
+              a[idx.n++] = v0; a[idx.n++] = prev; a[idx.n++] = cur
+              prev = cur
+            }
+          }
+          o += s * n
+        }
+      }
+    }
+  }
+  return finish(positions, idx, vEl.count, sourceFaces, triangulated)
+}
+
+function finish(positions: Float64Array, idx: U32Builder, nv: number, sourceFaces: number, triangulated: number) {
+  if (nv === 0 || idx.n === 0) throw new GeometryError('empty-mesh', `readPly: no ${nv === 0 ? 'vertices' : 'faces'}`)
+  const indices = idx.finish()
+  checkIndexRange(indices, nv, 'readPly')
+  return { mesh: { positions, indices }, sourceFaceCount: sourceFaces, triangulatedPolygons: triangulated }
+}
+
+function sanitize(s: string): string {
+  return s.replace(/[^A-Za-z0-9_-]/g, '?').slice(0, 40)
+}
+function badFace(f: number, n: number): GeometryError {
+  return new GeometryError('bad-face', `readPly: face ${f} has ${n} vertices (at least 3 needed)`, [{ path: `faces[${f}]`, message: `${n} vertices` }])
+}
+function negIndex(f: number): GeometryError {
+  return new GeometryError('index-out-of-range', `readPly: face ${f} has a negative vertex index`, [{ path: `faces[${f}]`, message: 'negative vertex index' }])
+}
+
+function readAsciiBody(b: Uint8Array, h: PlyHeader, vEl: Element, fEl: Element, xyz: number[], fi: number, limits: PlyLimits) {
+  const end = b.length
+  let i = h.bodyStart
+  let line = 0 // body line number
+  const positions = new Float64Array(vEl.count * 3)
+  const idx = new U32Builder(fEl.count * 3)
+  let sourceFaces = 0
+  let triangulated = 0
+  let poly = new Float64Array(64)
+  const mismatch = (what: string): never => {
+    throw new GeometryError('count-mismatch', `readPly: ${what} (body line ${line})`, [{ path: `body.line[${line}]`, message: what }])
+  }
+  /** Advance to the start of the next data line (skipping blank and comment lines); false at EOF. */
+  const nextLine = (): boolean => {
+    for (;;) {
+      while (i < end && (b[i] === 32 || b[i] === 9 || b[i] === 13 || b[i] === 12)) i++
+      if (i >= end) return false
+      const c = b[i]!
+      if (c === 10) { i++; line++; continue }
+      if (c === 35 || (c === 99 && b[i + 1] === 111 && b[i + 2] === 109 && b[i + 3] === 109 && b[i + 4] === 101 && b[i + 5] === 110 && b[i + 6] === 116 && (i + 7 >= end || isSep(b[i + 7]!)))) {
+        const e = b.indexOf(10, i)
+        if (e < 0) { i = end; return false }
+        i = e + 1; line++
+        continue
+      }
+      line++
+      return true
+    }
+  }
+  /** Next token on the current line; NaN when the line has ended. Sets `i` after it. */
+  let lineEnded = false
+  const token = (): number => {
+    while (i < end && (b[i] === 32 || b[i] === 9 || b[i] === 13 || b[i] === 12)) i++
+    if (i >= end || b[i] === 10 || b[i] === 35) { lineEnded = true; return Number.NaN }
+    const v = parseNumber(b, i, end)
+    i = tokenEnd
+    if (Number.isNaN(v)) throw new GeometryError('bad-number', `readPly: unparsable number (body line ${line})`, [{ path: `body.line[${line}]`, message: 'unparsable number' }])
+    return v
+  }
+  const endLine = (what: string) => {
+    while (i < end && (b[i] === 32 || b[i] === 9 || b[i] === 13 || b[i] === 12)) i++
+    if (i < end && b[i] !== 10 && b[i] !== 35) mismatch(`more values than declared on a ${what} line`)
+    const e = b.indexOf(10, i)
+    i = e < 0 ? end : e + 1
+  }
+  for (const el of h.elements) {
+    const name = sanitize(el.name)
+    for (let item = 0; item < el.count; item++) {
+      if (!nextLine()) truncated(`element "${name}" (item ${item} of ${el.count})`)
+      lineEnded = false
+      for (let pi = 0; pi < el.props.length; pi++) {
+        const p = el.props[pi]!
+        if (!p.list) {
+          const v = token()
+          if (lineEnded) mismatch(`fewer values than declared on a ${name} line`)
+          if (el === vEl) {
+            const k = xyz.indexOf(pi)
+            if (k >= 0) positions[3 * item + k] = v
+          }
+          continue
+        }
+        const n = token()
+        if (lineEnded) mismatch(`fewer values than declared on a ${name} line`)
+        if (!Number.isInteger(n) || n < 0 || n > 1e7) mismatch(`bad list length on a ${name} line`)
+        if (n > poly.length) poly = new Float64Array(n)
+        for (let k = 0; k < n; k++) {
+          const v = token()
+          if (lineEnded) mismatch(`fewer list values than the list length on a ${name} line`)
+          poly[k] = v
+        }
+        if (el === fEl && pi === fi) {
+          if (n < 3) throw badFace(item, n)
+          for (let k = 0; k < n; k++) {
+            const v = poly[k]!
+            if (!Number.isInteger(v)) mismatch('non-integer vertex index')
+            if (v < 0 || v > 0xfffffffe) throw negIndex(item)
+          }
+          sourceFaces++
+          if (n > 3) triangulated++
+          const add = 3 * (n - 2)
+          if (idx.n + add > idx.a.length) idx.grow(idx.n + add)
+          if ((idx.n + add) / 3 > limits.maxFaces) throw new GeometryError('too-large', `readPly: more than ${limits.maxFaces} triangles`)
+          const a = idx.a
+          for (let k = 1; k + 1 < n; k++) { a[idx.n++] = poly[0]!; a[idx.n++] = poly[k]!; a[idx.n++] = poly[k + 1]! }
+        }
+      }
+      endLine(name)
+    }
+  }
+  if (nextLine()) mismatch('data after the last declared element')
+  return finish(positions, idx, vEl.count, sourceFaces, triangulated)
+}

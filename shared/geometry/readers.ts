@@ -1,0 +1,250 @@
+/**
+ * Mesh readers: format sniffing and the byte-level helpers shared by the OBJ and PLY parsers.
+ *
+ * Everything works on the raw bytes (never one big string: V8 strings end near 512 MiB) and fills
+ * Float64Array positions / Uint32Array indices directly. Numbers are parsed exactly as `Number()`
+ * would: plain decimals with ≤ 2^53 mantissa and |exponent| ≤ 22 take an exact fast path
+ * (Clinger 1990: both operands exact, one correctly rounded operation), anything else falls back
+ * to `Number()` on the short token.
+ */
+import { GeometryError } from './types'
+import type { TriMesh } from './types'
+import { readObj } from './obj'
+import { readPly } from './ply'
+
+export interface ReadOptions {
+  /** Force a format instead of sniffing. */
+  format?: 'obj' | 'ply'
+  /** Refuse files with more vertices than this (default 10 000 000). */
+  maxVertices?: number
+  /** Refuse files with more triangles (after triangulation) than this (default 20 000 000). */
+  maxFaces?: number
+}
+
+export interface ReadResult {
+  mesh: TriMesh
+  format: 'obj' | 'ply'
+  /** Number of faces (polygons) in the file, before triangulation. */
+  sourceFaceCount: number
+  /** Number of polygons with more than three vertices that were fan-triangulated. */
+  triangulatedPolygons: number
+}
+
+export const DEFAULT_MAX_VERTICES = 10_000_000
+export const DEFAULT_MAX_FACES = 20_000_000
+
+/**
+ * Read a triangle mesh from OBJ or PLY bytes.
+ * Format: `opts.format`, else PLY when the file starts with `ply` + newline, else OBJ when the
+ * start of the file is text whose first keyword is an OBJ keyword, else 'unknown-format'.
+ * Polygons are fan-triangulated (v0, vi, vi+1). Indices are checked against the vertex count;
+ * everything else (closedness, winding, duplicates) is left to `validateMesh`.
+ * @throws GeometryError 'empty-file', 'unknown-format', 'bad-header', 'truncated',
+ *   'count-mismatch', 'bad-number', 'bad-face', 'index-out-of-range', 'too-large', 'empty-mesh'.
+ */
+export function readMesh(bytes: Uint8Array, opts: ReadOptions = {}): ReadResult {
+  const limits = {
+    maxVertices: opts.maxVertices ?? DEFAULT_MAX_VERTICES,
+    maxFaces: opts.maxFaces ?? DEFAULT_MAX_FACES,
+  }
+  if (bytes.length === 0 || isBlank(bytes)) throw new GeometryError('empty-file', 'readMesh: the file is empty')
+  const format = opts.format ?? sniffFormat(bytes)
+  const r = format === 'ply' ? readPly(bytes, limits) : readObj(bytes, limits)
+  return { ...r, format }
+}
+
+function isBlank(b: Uint8Array): boolean {
+  const n = Math.min(b.length, 4096)
+  for (let i = 0; i < n; i++) {
+    const c = b[i]!
+    if (c !== 32 && c !== 9 && c !== 10 && c !== 13 && c !== 0) return false
+  }
+  return b.length <= 4096
+}
+
+const OBJ_KEYWORDS = new Set(['v', 'vt', 'vn', 'vp', 'f', 'o', 'g', 's', 'l', 'p', 'usemtl', 'mtllib', 'cstype', 'deg', 'curv', 'surf', 'mg', 'maplib', 'usemap', 'bevel', 'c_interp', 'd_interp', 'lod', 'shadow_obj', 'trace_obj'])
+
+/** 'ply' | 'obj' for recognisable content, else throws 'unknown-format'. */
+export function sniffFormat(b: Uint8Array): 'obj' | 'ply' {
+  if (b.length >= 4 && b[0] === 0x70 && b[1] === 0x6c && b[2] === 0x79 && (b[3] === 10 || (b[3] === 13 && b[4] === 10))) return 'ply'
+  // OBJ: text (no control bytes) in the first 4 KiB, first keyword an OBJ keyword
+  let i = b.length >= 3 && b[0] === 0xef && b[1] === 0xbb && b[2] === 0xbf ? 3 : 0
+  const n = Math.min(b.length, 4096)
+  for (let k = i; k < n; k++) {
+    const c = b[k]!
+    if (c < 32 && c !== 9 && c !== 10 && c !== 13 && c !== 12) throw new GeometryError('unknown-format', 'readMesh: not a PLY file (no "ply" magic) and not OBJ text (binary bytes near the start)')
+  }
+  const limit = Math.min(b.length, 1 << 16)
+  while (i < limit) {
+    while (i < limit && (b[i] === 32 || b[i] === 9 || b[i] === 13 || b[i] === 10 || b[i] === 12)) i++
+    if (i >= limit) break
+    if (b[i] === 35) { // comment
+      const e = b.indexOf(10, i)
+      if (e < 0) break
+      i = e + 1
+      continue
+    }
+    let j = i
+    while (j < b.length && b[j] !== 32 && b[j] !== 9 && b[j] !== 10 && b[j] !== 13) j++
+    if (j - i <= 12 && OBJ_KEYWORDS.has(latin1(b, i, j))) return 'obj'
+    break
+  }
+  throw new GeometryError('unknown-format', 'readMesh: not a PLY file (no "ply" magic) and not recognisable OBJ (no OBJ keyword at the start)')
+}
+
+// Node's Buffer has a native Latin-1 slice that also accepts a plain Uint8Array; elsewhere fall back.
+const nativeLatin1 = (globalThis as { Buffer?: { prototype: { latin1Slice?: (this: Uint8Array, s: number, e: number) => string } } }).Buffer?.prototype.latin1Slice
+
+/** Decode bytes [start, end) as Latin-1 (short slices only). */
+export function latin1(b: Uint8Array, start: number, end: number): string {
+  if (nativeLatin1) return nativeLatin1.call(b, start, end)
+  let s = ''
+  for (let i = start; i < end; i++) s += String.fromCharCode(b[i]!)
+  return s
+}
+
+const POW10 = [1e0, 1e1, 1e2, 1e3, 1e4, 1e5, 1e6, 1e7, 1e8, 1e9, 1e10, 1e11, 1e12, 1e13, 1e14, 1e15, 1e16, 1e17, 1e18, 1e19, 1e20, 1e21, 1e22]
+const MAX_EXACT = 9007199254740991
+
+/** End offset of the last token read by `parseNumber` / `parseInteger`. */
+export let tokenEnd = 0
+
+/** True for bytes that end a token: space, tab, CR, LF, FF, VT, NUL, '#'. */
+export function isSep(c: number): boolean {
+  return c === 32 || c === 9 || c === 10 || c === 13 || c === 12 || c === 11 || c === 0 || c === 35
+}
+
+/**
+ * Parse the number token starting at `i` (no leading spaces), ending at a separator or `end`.
+ * Returns NaN when `Number()` would (the caller raises the error with the line number).
+ * Sets `tokenEnd`.
+ */
+export function parseNumber(b: Uint8Array, i: number, end: number): number {
+  const start = i
+  let neg = false
+  let c = b[i]!
+  if (c === 45) { neg = true; i++ } else if (c === 43) i++
+  let m = 0
+  let nd = 0
+  let e10 = 0
+  while (i < end) {
+    c = b[i]! - 48
+    if (c < 0 || c > 9) break
+    m = m * 10 + c
+    nd++
+    i++
+  }
+  if (i < end && b[i] === 46) {
+    i++
+    while (i < end) {
+      c = b[i]! - 48
+      if (c < 0 || c > 9) break
+      m = m * 10 + c
+      nd++
+      e10--
+      i++
+    }
+  }
+  let ok = nd > 0
+  if (ok && i < end && (b[i] === 101 || b[i] === 69)) {
+    i++
+    let eneg = false
+    if (i < end && (b[i] === 45 || b[i] === 43)) { eneg = b[i] === 45; i++ }
+    let ev = 0
+    let ed = 0
+    while (i < end) {
+      c = b[i]! - 48
+      if (c < 0 || c > 9) break
+      if (ev < 100000) ev = ev * 10 + c
+      ed++
+      i++
+    }
+    if (ed === 0) ok = false
+    e10 += eneg ? -ev : ev
+  }
+  if (ok && (i >= end || isSep(b[i]!))) {
+    tokenEnd = i
+    if (m === 0) return neg ? -0 : 0
+    if (m <= MAX_EXACT && e10 >= -22 && e10 <= 22) {
+      const v = e10 < 0 ? m / POW10[-e10]! : m * POW10[e10]!
+      return neg ? -v : v
+    }
+  }
+  // slow path: the whole token through Number()
+  let j = start
+  while (j < end && !isSep(b[j]!)) j++
+  tokenEnd = j
+  if (j - start > 400) return Number.NaN
+  const s = latin1(b, start, j)
+  return Number(s)
+}
+
+/**
+ * Parse a decimal integer (optional sign) at `i`; stops at the first non-digit (so `12/5/7`
+ * reads 12). Returns NaN when there are no digits or the value exceeds 2^53.
+ * Sets `tokenEnd`.
+ */
+export function parseInteger(b: Uint8Array, i: number, end: number): number {
+  let neg = false
+  let c = b[i]!
+  if (c === 45) { neg = true; i++ } else if (c === 43) i++
+  let v = 0
+  let nd = 0
+  while (i < end) {
+    c = b[i]! - 48
+    if (c < 0 || c > 9) break
+    v = v * 10 + c
+    nd++
+    i++
+  }
+  tokenEnd = i
+  if (nd === 0 || v > MAX_EXACT) return Number.NaN
+  return neg ? -v : v
+}
+
+/** Growable Uint32Array. */
+export class U32Builder {
+  a: Uint32Array
+  n = 0
+  constructor(cap: number) { this.a = new Uint32Array(Math.max(16, cap)) }
+  grow(min: number): void {
+    let cap = this.a.length * 2
+    while (cap < min) cap *= 2
+    const b = new Uint32Array(cap)
+    b.set(this.a.subarray(0, this.n))
+    this.a = b
+  }
+  finish(): Uint32Array { return this.a.length === this.n ? this.a : this.a.slice(0, this.n) }
+}
+
+/** Growable Float64Array. */
+export class F64Builder {
+  a: Float64Array
+  n = 0
+  constructor(cap: number) { this.a = new Float64Array(Math.max(16, cap)) }
+  grow(min: number): void {
+    let cap = this.a.length * 2
+    while (cap < min) cap *= 2
+    const b = new Float64Array(cap)
+    b.set(this.a.subarray(0, this.n))
+    this.a = b
+  }
+  finish(): Float64Array { return this.a.length === this.n ? this.a : this.a.slice(0, this.n) }
+}
+
+/** Throw 'index-out-of-range' for the first index ≥ vertexCount (message gives face numbers). */
+export function checkIndexRange(indices: Uint32Array, vertexCount: number, who: string): void {
+  let bad = 0
+  const first: number[] = []
+  for (let i = 0; i < indices.length; i++) {
+    if (indices[i]! >= vertexCount) {
+      bad++
+      const f = (i / 3) | 0
+      if (first.length < 5 && first[first.length - 1] !== f) first.push(f)
+    }
+  }
+  if (bad > 0) {
+    throw new GeometryError('index-out-of-range', `${who}: ${bad} vertex indices are out of range (vertex count ${vertexCount}); first triangles: ${first.join(', ')}`,
+      first.map(f => ({ path: `faces[${f}]`, message: `vertex index out of range (vertex count ${vertexCount})` })))
+  }
+}
