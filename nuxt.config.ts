@@ -1,4 +1,4 @@
-import { cp } from 'node:fs/promises'
+import { cp, writeFile } from 'node:fs/promises'
 import { resolve } from 'node:path'
 import { templateCompilerOptions } from '@tresjs/core'
 import pkg from './package.json' with { type: 'json' }
@@ -38,6 +38,11 @@ export default defineNuxtConfig({
       // Migrations live beside the built server entry so the built app finds them (see STACK.md).
       async compiled(nitro) {
         await cp(resolve(nitro.options.rootDir, 'server/db/migrations'), resolve(nitro.options.output.serverDir, 'migrations'), { recursive: true })
+        // The built server's route table (scanned and module-added handlers), for the role-matrix test.
+        const routes = [...nitro.scannedHandlers, ...nitro.options.handlers]
+          .filter(h => h.route && !h.middleware)
+          .map(h => ({ route: h.route, method: (h.method ?? 'all').toUpperCase() }))
+        await writeFile(resolve(nitro.options.output.serverDir, 'routes.json'), JSON.stringify(routes, null, 2))
       },
     },
   },

@@ -1,0 +1,13 @@
+import { accountUpdateSchema } from '#shared/types/account'
+import { eq } from 'drizzle-orm'
+
+/** Change one's display name (the session cookie carries it, so it is rewritten too). */
+export default defineEventHandler(async (event) => {
+  const actor = await requireRole(event, 'viewer')
+  const { name } = await readBodyAs(event, accountUpdateSchema)
+  const [user] = await useDB().update(schema.users).set({ name }).where(eq(schema.users.id, actor.id)).returning()
+  if (!user) throw notFound('Account')
+  if (actor.via === 'session') await startSession(event, user)
+  await audit(event, { actorId: actor.id, action: 'account.renamed', subjectType: 'user', subjectId: actor.id })
+  return memberView(user)
+})

@@ -1,0 +1,17 @@
+import { passwordChangeSchema } from '#shared/types/account'
+import { eq } from 'drizzle-orm'
+
+/** Change one's password; the current one is required. */
+export default defineEventHandler(async (event) => {
+  const actor = await requireRole(event, 'viewer')
+  const { currentPassword, newPassword } = await readBodyAs(event, passwordChangeSchema)
+  const db = useDB()
+  const user = await db.select().from(schema.users).where(eq(schema.users.id, actor.id)).get()
+  if (!user) throw notFound('Account')
+  if (!(await verifyPassword(user.passwordHash, currentPassword))) {
+    throw unprocessable('The current password is not right', [{ path: 'currentPassword', message: 'not right' }])
+  }
+  await db.update(schema.users).set({ passwordHash: await hashPassword(newPassword) }).where(eq(schema.users.id, actor.id))
+  await audit(event, { actorId: actor.id, action: 'account.password-changed', subjectType: 'user', subjectId: actor.id })
+  return { ok: true }
+})

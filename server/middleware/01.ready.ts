@@ -1,0 +1,4 @@
+// Requests wait for start-up (database open and migrated) instead of racing it.
+export default defineEventHandler(async () => {
+  await serverReady()
+})

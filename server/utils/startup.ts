@@ -1,0 +1,58 @@
+import { existsSync, mkdirSync, readFileSync, writeFileSync } from 'node:fs'
+import { join } from 'node:path'
+import { randomBytes } from 'node:crypto'
+import { eq } from 'drizzle-orm'
+
+let ready: Promise<void> | undefined
+
+/**
+ * Everything the server needs before it answers: session secret, database (migrated), the
+ * embedded mail server when no SMTP_URL is set, the first admin and, in demo mode, the demo team.
+ * Nitro does not await async plugins, so every request awaits this one promise.
+ */
+export function serverReady(): Promise<void> {
+  ready ??= (async () => {
+    const config = useConfig()
+    ensureSessionPassword(config)
+    const db = await openDatabase()
+    if (!config.smtpUrl) {
+      const port = await startLocalSmtp(db, config.localSmtpPort)
+      console.info(`[isthmus] local mail drop listening on 127.0.0.1:${port}`)
+    }
+    await ensureFirstAdmin(db)
+    if (config.demo) await seedDemo(db)
+    await afterStartHooks.reduce((p, hook) => p.then(() => hook(db)), Promise.resolve())
+  })()
+  return ready
+}
+
+/** Work other modules register to run once the database is ready (e.g. marking stale jobs failed). */
+const afterStartHooks: ((db: DB) => Promise<void>)[] = []
+export function onServerReady(hook: (db: DB) => Promise<void>) {
+  afterStartHooks.push(hook)
+}
+
+function ensureSessionPassword(config: IsthmusConfig) {
+  const current = process.env.NUXT_SESSION_PASSWORD
+  if (current && current.length >= 32) return
+  if (current) throw new Error('NUXT_SESSION_PASSWORD must be at least 32 characters long')
+  if (!config.demo) {
+    throw new Error('NUXT_SESSION_PASSWORD is not set. Set it to a random string of 32+ characters (demo mode generates one).')
+  }
+  mkdirSync(config.dataDir, { recursive: true })
+  const file = join(config.dataDir, 'session-secret')
+  if (!existsSync(file)) writeFileSync(file, randomBytes(32).toString('base64url'), { mode: 0o600 })
+  process.env.NUXT_SESSION_PASSWORD = readFileSync(file, 'utf8').trim()
+}
+
+async function ensureFirstAdmin(db: DB) {
+  const email = process.env.ISTHMUS_ADMIN_EMAIL?.trim().toLowerCase()
+  const password = process.env.ISTHMUS_ADMIN_PASSWORD
+  if (!email || !password) return
+  const existing = await db.select({ id: schema.users.id }).from(schema.users).where(eq(schema.users.email, email)).get()
+  if (existing) return
+  const [user] = await db.insert(schema.users).values({
+    email, name: process.env.ISTHMUS_ADMIN_NAME || 'Administrator', role: 'admin', passwordHash: await hashPassword(password),
+  }).returning({ id: schema.users.id })
+  await audit(null, { actorId: null, action: 'member.bootstrap', subjectType: 'user', subjectId: user!.id, detail: { email } }, db)
+}
