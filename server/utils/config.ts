@@ -21,7 +21,9 @@ export interface IsthmusConfig {
   /** Origin used to build links in mails, never the request's Host header. */
   publicUrl: string
   demo: boolean
+  /** Failed sign-ins allowed per account, and per client address, within the window. */
   signinMaxFailures: number
+  signinMaxFailuresPerIp: number
   signinWindowMs: number
   maxUploadBytes: number
   invitationTtlMs: number
@@ -56,6 +58,7 @@ export function useConfig(): IsthmusConfig {
     publicUrl: (process.env.ISTHMUS_PUBLIC_URL || `http://localhost:${port}`).replace(/\/+$/, ''),
     demo: process.env.ISTHMUS_DEMO === '1' || process.env.ISTHMUS_DEMO === 'true',
     signinMaxFailures: int('ISTHMUS_SIGNIN_MAX_FAILURES', 10),
+    signinMaxFailuresPerIp: int('ISTHMUS_SIGNIN_MAX_FAILURES_PER_IP', int('ISTHMUS_SIGNIN_MAX_FAILURES', 10)),
     signinWindowMs: int('ISTHMUS_SIGNIN_WINDOW_SECONDS', 15 * 60) * 1000,
     maxUploadBytes: int('ISTHMUS_MAX_UPLOAD_MB', 512) * 1024 * 1024,
     invitationTtlMs: int('ISTHMUS_INVITATION_TTL_HOURS', 7 * 24) * 3600_000,

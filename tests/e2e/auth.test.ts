@@ -1,0 +1,225 @@
+import { SMTPServer } from 'smtp-server'
+import { createTransport } from 'nodemailer'
+import { simpleParser } from 'mailparser'
+import { afterAll, beforeAll, describe, expect, it } from 'vitest'
+import { Agent, latestMailTo, linkIn } from './support/http'
+import { freePort, startServer, type RunningServer } from './support/server'
+
+describe('sign-in, sessions, invitations and password resets', () => {
+  let server: RunningServer
+  let admin: Agent
+  beforeAll(async () => {
+    server = await startServer({ ISTHMUS_SIGNIN_MAX_FAILURES: '3', ISTHMUS_SIGNIN_MAX_FAILURES_PER_IP: '1000', ISTHMUS_SIGNIN_WINDOW_SECONDS: '60' })
+    admin = new Agent(server.url)
+    await admin.signIn('root@example.org', 'root-password-123')
+  })
+  afterAll(() => server?.dispose())
+
+  it('answers health with version and database state', async () => {
+    const res = await new Agent(server.url).get('/api/health')
+    expect(res.status).toBe(200)
+    expect(res.json).toMatchObject({ ok: true, db: 'ok' })
+    expect(typeof res.json.version).toBe('string')
+  })
+
+  it('signs in, reports the member, signs out; the cookie holds only id and name', async () => {
+    const a = new Agent(server.url)
+    expect((await a.get('/api/session')).json).toEqual({ user: null })
+    const res = await a.post('/api/session', { email: 'ROOT@example.org', password: 'root-password-123' })
+    expect(res.status).toBe(200)
+    expect(res.json.user).toMatchObject({ email: 'root@example.org', role: 'admin' })
+    expect(res.json.user.passwordHash).toBeUndefined()
+    const cookie = res.headers.getSetCookie().join(';')
+    expect(cookie).not.toMatch(/root@example\.org|admin/)
+    expect(cookie.length).toBeLessThan(4096)
+    // nuxt-auth-utils exposes the sealed session's content: only id and name.
+    const raw = await a.get('/api/_auth/session')
+    expect(Object.keys(raw.json.user).sort()).toEqual(['id', 'name'])
+    expect((await a.get('/api/session')).json.user.email).toBe('root@example.org')
+    expect((await a.delete('/api/session')).status).toBe(200)
+    expect((await a.get('/api/session')).json).toEqual({ user: null })
+    expect((await a.get('/api/members')).status).toBe(401)
+  })
+
+  it('gives the same generic 401 for an unknown e-mail and a wrong password', async () => {
+    const a = new Agent(server.url, { 'x-test': 'generic' })
+    const unknown = await a.post('/api/session', { email: 'nobody@example.org', password: 'whatever-123' })
+    const wrong = await a.post('/api/session', { email: 'root@example.org', password: 'not-the-password' })
+    expect(unknown.status).toBe(401)
+    expect(wrong.status).toBe(401)
+    expect(unknown.json.message).toBe(wrong.json.message)
+    expect((await a.post('/api/session', { email: 'not-an-email' })).status).toBe(422)
+  })
+
+  it('rate-limits failed sign-ins per account with a retry time', async () => {
+    // Limit is 3 failures per key in this server's configuration.
+    const victim = 'limited@example.org'
+    const inv = await admin.post('/api/invitations', { email: victim, role: 'viewer' })
+    expect(inv.status).toBe(201)
+    const link = linkIn((await latestMailTo(admin, victim)).text)
+    const member = new Agent(server.url)
+    expect((await member.post(new URL(link).pathname.replace('/join/', '/api/join/'), { name: 'Limited', password: 'limited-pass-1' })).status).toBe(200)
+    const attacker = new Agent(server.url)
+    for (let i = 0; i < 3; i++) expect((await attacker.post('/api/session', { email: victim, password: `bad-guess-${i}` })).status).toBe(401)
+    const blocked = await attacker.post('/api/session', { email: victim, password: 'limited-pass-1' })
+    expect(blocked.status).toBe(429)
+    expect(Number(blocked.headers.get('retry-after'))).toBeGreaterThan(0)
+    expect(blocked.json.data.retryAfterSeconds).toBeGreaterThan(0)
+    // Failures are stored per key in the database.
+    const rows = await server.sql().execute({ sql: 'select count(*) as n from signin_failures where key = ?', args: [`account:${victim}`] })
+    expect(Number(rows.rows[0]!.n)).toBeGreaterThanOrEqual(3)
+  })
+
+  it('refuses cross-site state-changing requests (Origin check) but lets scripts without Origin through', async () => {
+    const a = new Agent(server.url)
+    const evil = await a.post('/api/session', { email: 'root@example.org', password: 'root-password-123' }, { origin: 'https://evil.example' })
+    expect(evil.status).toBe(403)
+    const crossSite = await a.post('/api/session', { email: 'root@example.org', password: 'root-password-123' }, { 'sec-fetch-site': 'cross-site' })
+    expect(crossSite.status).toBe(403)
+    const same = await a.post('/api/session', { email: 'root@example.org', password: 'root-password-123' }, { origin: server.url })
+    expect(same.status).toBe(200)
+    // Reads are not state-changing and pass with any Origin.
+    expect((await a.get('/api/health', { origin: 'https://evil.example' })).status).toBe(200)
+  })
+
+  it('resets a password by mail over local SMTP; the link works once; an expired link is refused; only hashes are stored', async () => {
+    const email = 'resetter@example.org'
+    await admin.post('/api/invitations', { email, role: 'analyst' })
+    const joinLink = linkIn((await latestMailTo(admin, email)).text)
+    expect(joinLink.startsWith(server.env.ISTHMUS_PUBLIC_URL!)).toBe(true)
+    const joinToken = joinLink.split('/join/')[1]!
+    const member = new Agent(server.url)
+    expect((await member.get(`/api/join/${joinToken}`)).json).toMatchObject({ email, role: 'analyst' })
+    expect((await member.post(`/api/join/${joinToken}`, { name: 'Resetter', password: 'first-password-1' })).status).toBe(200)
+    expect((await new Agent(server.url).post(`/api/join/${joinToken}`, { name: 'Again', password: 'second-try-pass' })).status).toBe(410)
+
+    const anon = new Agent(server.url)
+    const unknown = await anon.post('/api/password-resets', { email: 'ghost@example.org' })
+    const known = await anon.post('/api/password-resets', { email })
+    expect(unknown.status).toBe(202)
+    expect(known.status).toBe(202)
+    expect(unknown.json.message).toBe(known.json.message)
+    const mail = await latestMailTo(admin, email)
+    expect(mail.subject).toMatch(/reset/i)
+    const token = linkIn(mail.text).split('/reset/')[1]!
+    expect((await anon.get(`/api/password-resets/${token}`)).status).toBe(200)
+    expect((await anon.post(`/api/password-resets/${token}`, { password: 'second-password-2' })).status).toBe(200)
+    expect((await anon.post(`/api/password-resets/${token}`, { password: 'third-password-3' })).status).toBe(410)
+    expect((await new Agent(server.url).post('/api/session', { email, password: 'first-password-1' })).status).toBe(401)
+    await new Agent(server.url).signIn(email, 'second-password-2')
+
+    // An expired link: ask for another, then move its expiry into the past in the database.
+    await anon.post('/api/password-resets', { email })
+    const mails = await admin.get('/api/mail-drop?limit=50')
+    const second = mails.json.items.filter((m: { envelopeTo: string[], subject: string }) => m.envelopeTo.includes(email) && /reset/i.test(m.subject))[0]
+    const token2 = linkIn(second.text).split('/reset/')[1]!
+    expect(token2).not.toBe(token)
+    await server.sql().execute('update password_resets set expires_at = 0 where used_at is null')
+    expect((await anon.post(`/api/password-resets/${token2}`, { password: 'fourth-password-4' })).status).toBe(410)
+
+    // Only hashes at rest: no token or password appears in any row.
+    const db = server.sql()
+    const resets = (await db.execute('select token_hash from password_resets')).rows
+    const invites = (await db.execute('select token_hash from invitations')).rows
+    const users = (await db.execute('select password_hash from users')).rows
+    for (const r of [...resets, ...invites]) expect(String(r.token_hash)).toMatch(/^[0-9a-f]{64}$/)
+    for (const t of [token, token2, joinToken]) {
+      expect(resets.concat(invites).some(r => r.token_hash === t)).toBe(false)
+    }
+    for (const u of users) {
+      expect(String(u.password_hash)).not.toContain('password')
+      expect(String(u.password_hash)).toMatch(/^\$scrypt\$/)
+    }
+  })
+
+  it('takes away access at once when a member is deactivated or demoted', async () => {
+    const email = 'short-lived@example.org'
+    await admin.post('/api/invitations', { email, role: 'admin' })
+    const token = linkIn((await latestMailTo(admin, email)).text).split('/join/')[1]!
+    const member = new Agent(server.url)
+    const joined = await member.post(`/api/join/${token}`, { name: 'Short', password: 'short-lived-1' })
+    expect(joined.status).toBe(200)
+    const id = joined.json.user.id
+    expect((await member.get('/api/members')).status).toBe(200)
+    expect((await admin.patch(`/api/members/${id}`, { role: 'viewer' })).status).toBe(200)
+    expect((await member.get('/api/members')).status).toBe(403)
+    expect((await admin.patch(`/api/members/${id}`, { active: false })).status).toBe(200)
+    expect((await member.get('/api/account')).status).toBe(401)
+    expect((await new Agent(server.url).post('/api/session', { email, password: 'short-lived-1' })).status).toBe(401)
+    const events = await admin.get('/api/audit?limit=200')
+    const actions = events.json.items.map((e: { action: string }) => e.action)
+    expect(actions).toEqual(expect.arrayContaining(['invitation.sent', 'invitation.accepted', 'member.role-changed', 'member.deactivated', 'password-reset.requested', 'password-reset.completed']))
+  })
+})
+
+describe('sign-in rate limit per client address', () => {
+  it('blocks an address that fails across many accounts, with a retry time', async () => {
+    const server = await startServer({ ISTHMUS_SIGNIN_MAX_FAILURES: '100', ISTHMUS_SIGNIN_MAX_FAILURES_PER_IP: '4', ISTHMUS_SIGNIN_WINDOW_SECONDS: '2' })
+    try {
+      const a = new Agent(server.url)
+      for (let i = 0; i < 4; i++) expect((await a.post('/api/session', { email: `spray${i}@example.org`, password: 'guess-guess' })).status).toBe(401)
+      const blocked = await a.post('/api/session', { email: 'root@example.org', password: 'root-password-123' })
+      expect(blocked.status).toBe(429)
+      const retry = Number(blocked.headers.get('retry-after'))
+      expect(retry).toBeGreaterThan(0)
+      expect(retry).toBeLessThanOrEqual(2)
+      // After the window the right password works again.
+      await new Promise(r => setTimeout(r, retry * 1000 + 200))
+      expect((await a.post('/api/session', { email: 'root@example.org', password: 'root-password-123' })).status).toBe(200)
+    }
+    finally {
+      await server.dispose()
+    }
+  })
+})
+
+describe('mail over real loopback SMTP in both directions', () => {
+  it('sends through SMTP_URL to an outside SMTP server', async () => {
+    const port = await freePort()
+    const received: { to: string[], subject: string, text: string }[] = []
+    const smtp = new SMTPServer({
+      authOptional: true,
+      disabledCommands: ['STARTTLS'],
+      onData(stream, session, cb) {
+        simpleParser(stream).then((m) => {
+          received.push({ to: session.envelope.rcptTo.map(r => r.address), subject: m.subject ?? '', text: m.text ?? '' })
+          cb()
+        }, cb)
+      },
+    })
+    await new Promise<void>(r => smtp.listen(port, '127.0.0.1', () => r()))
+    const server = await startServer({ SMTP_URL: `smtp://127.0.0.1:${port}?ignoreTLS=true` })
+    try {
+      const admin = new Agent(server.url)
+      await admin.signIn('root@example.org', 'root-password-123')
+      expect((await admin.post('/api/invitations', { email: 'outside@example.org', role: 'viewer' })).status).toBe(201)
+      const deadline = Date.now() + 5000
+      while (!received.length && Date.now() < deadline) await new Promise(r => setTimeout(r, 50))
+      expect(received[0]?.to).toEqual(['outside@example.org'])
+      expect(received[0]?.text).toContain(`${server.url}/join/`)
+      // With SMTP_URL set the embedded server is not started and the mail drop stays empty.
+      expect((await admin.get('/api/mail-drop')).json).toMatchObject({ total: 0, embedded: false })
+    }
+    finally {
+      await server.dispose()
+      await new Promise<void>(r => smtp.close(() => r()))
+    }
+  })
+
+  it('receives mail from an outside SMTP client in the embedded mail drop', async () => {
+    const localSmtpPort = await freePort()
+    const server = await startServer({ ISTHMUS_LOCAL_SMTP_PORT: String(localSmtpPort) })
+    try {
+      const transport = createTransport({ host: '127.0.0.1', port: localSmtpPort, secure: false, ignoreTLS: true })
+      await transport.sendMail({ from: 'probe@example.org', to: 'someone@example.org', subject: 'Loopback probe', text: 'Hello over SMTP' })
+      const admin = new Agent(server.url)
+      await admin.signIn('root@example.org', 'root-password-123')
+      const mail = await latestMailTo(admin, 'someone@example.org')
+      expect(mail.subject).toBe('Loopback probe')
+      expect(mail.text.trim()).toBe('Hello over SMTP')
+    }
+    finally {
+      await server.dispose()
+    }
+  })
+})
