@@ -1,0 +1,532 @@
+/**
+ * Mesh validation and repair for mass properties and gravity.
+ *
+ * What `validateMesh` guarantees on return: finite coordinates; every index in range; duplicate
+ * vertices welded (tolerance relative to the bounding-box diagonal); unreferenced vertices and
+ * degenerate (zero-area) faces removed; every edge shared by exactly two faces in opposite
+ * directions (closed, consistently oriented 2-manifold); every vertex fan a single disk; every
+ * connected component with positive signed volume (outward normals, CCW seen from outside).
+ * All edge work is on typed arrays (vertex-sorted half-edge lists), no per-edge objects.
+ */
+import { MeshBVH, ExtendedTriangle } from 'three-mesh-bvh'
+import { BufferAttribute, BufferGeometry, Matrix4 } from 'three'
+import { GeometryError } from './types'
+import type { TriMesh } from './types'
+
+export interface ValidationWarning { code: string, message: string }
+
+export interface ValidationReport {
+  warnings: ValidationWarning[]
+  /** Vertices and triangles of the returned mesh. */
+  vertexCount: number
+  faceCount: number
+  inputVertexCount: number
+  inputFaceCount: number
+  /** Vertices merged into another within the weld tolerance. */
+  weldedVertices: number
+  /** Weld tolerance used, metres (weldTolerance × bounding-box diagonal). */
+  weldToleranceMetres: number
+  unreferencedVertices: number
+  /** Zero-area triangles (collapsed after welding or collinear) that were dropped. */
+  degenerateFaces: number
+  /** Triangles whose winding was reversed to agree with their neighbours. */
+  flippedFaces: number
+  /** True when at least one component was inside-out (negative volume) and was reversed. */
+  invertedOrientation: boolean
+  invertedComponents: number
+  /** Connected components (faces joined through shared edges), largest first. */
+  components: number
+  componentFaceCounts: number[]
+  /** Signed volume after repair, m³ (positive). */
+  volume: number
+  selfIntersections: { checked: boolean, count: number, firstPairs: [number, number][] }
+  /** For each output triangle, the index of the input triangle it came from. */
+  faceOrigin: Uint32Array
+}
+
+export interface ValidateOptions {
+  /** Weld distance as a fraction of the bounding-box diagonal (default 1e-9; 0 welds exact duplicates only). */
+  weldTolerance?: number
+  /**
+   * 'auto' (default): weld only when the input has boundary edges; 'always'; 'never'.
+   */
+  weld?: 'auto' | 'always' | 'never'
+  /** Run the self-intersection check only up to this many faces (default 300 000). */
+  selfIntersectionMaxFaces?: number
+}
+
+const MAX_LISTED = 5
+
+function issuesFor(faces: ArrayLike<number>, msg: string, kind = 'faces'): { path: string, message: string }[] {
+  return Array.from(faces).slice(0, MAX_LISTED).map(f => ({ path: `${kind}[${f}]`, message: msg }))
+}
+
+/**
+ * Check and repair a triangle mesh. Returns a new mesh (the input is not modified) and a report.
+ * @throws GeometryError 'empty-mesh', 'non-finite', 'index-out-of-range', 'degenerate-face',
+ *   'open-mesh', 'non-manifold-edge', 'non-orientable', 'non-manifold-vertex'. The message gives
+ *   counts and the first few (input) face or vertex indices; `issues` lists them as
+ *   { path: 'faces[17]', message }.
+ */
+export function validateMesh(mesh: TriMesh, opts: ValidateOptions = {}): { mesh: TriMesh, report: ValidationReport } {
+  const P0 = mesh.positions
+  const I0 = mesh.indices
+  if (P0.length % 3 !== 0 || I0.length % 3 !== 0) throw new GeometryError('bad-mesh', 'validateMesh: positions and indices lengths must be multiples of 3')
+  const nv0 = P0.length / 3
+  const nf0 = I0.length / 3
+  if (nv0 === 0 || nf0 === 0) throw new GeometryError('empty-mesh', 'validateMesh: the mesh has no vertices or no faces')
+  const warnings: ValidationWarning[] = []
+
+  // 1. finite coordinates, bounding box
+  let minx = Infinity, miny = Infinity, minz = Infinity, maxx = -Infinity, maxy = -Infinity, maxz = -Infinity
+  const badV: number[] = []
+  let nBadV = 0
+  for (let v = 0; v < nv0; v++) {
+    const x = P0[3 * v]!, y = P0[3 * v + 1]!, z = P0[3 * v + 2]!
+    if (!Number.isFinite(x) || !Number.isFinite(y) || !Number.isFinite(z)) {
+      nBadV++
+      if (badV.length < MAX_LISTED) badV.push(v)
+      continue
+    }
+    if (x < minx) minx = x; if (x > maxx) maxx = x
+    if (y < miny) miny = y; if (y > maxy) maxy = y
+    if (z < minz) minz = z; if (z > maxz) maxz = z
+  }
+  if (nBadV > 0) throw new GeometryError('non-finite', `validateMesh: ${nBadV} vertices have non-finite coordinates; first: ${badV.join(', ')}`, issuesFor(badV, 'non-finite coordinate', 'vertices'))
+
+  // 2. indices in range
+  {
+    let n = 0
+    const first: number[] = []
+    for (let i = 0; i < I0.length; i++) {
+      if (I0[i]! >= nv0) { n++; const f = (i / 3) | 0; if (first.length < MAX_LISTED && first[first.length - 1] !== f) first.push(f) }
+    }
+    if (n > 0) throw new GeometryError('index-out-of-range', `validateMesh: ${n} vertex indices out of range (vertex count ${nv0}); first faces: ${first.join(', ')}`, issuesFor(first, 'vertex index out of range'))
+  }
+
+  // 3. weld within tolerance (spatial hash, cells of 8·tol, neighbour cells checked near a boundary).
+  // 'auto' (default): only when the mesh as given has boundary edges, i.e. seams of duplicated
+  // vertices; welding a closed mesh could only join separate sheets that touch.
+  const diag = Math.hypot(maxx - minx, maxy - miny, maxz - minz)
+  const relTol = opts.weldTolerance ?? 1e-9
+  const tol = relTol * diag
+  const weldMode = opts.weld ?? 'auto'
+  let doWeld = weldMode === 'always'
+  let E0: EdgeAnalysis | undefined
+  if (weldMode === 'auto') { E0 = analyseEdges(I0, nv0, true); doWeld = E0.boundary > 0 }
+  const { map: weldMap, count: nvWeld, reps } = doWeld ? weld(P0, nv0, minx, miny, minz, diag, tol) : identityWeld(nv0)
+  const weldedVertices = nv0 - nvWeld
+
+  // 4. remap faces, drop collapsed and zero-area triangles
+  let I = new Uint32Array(I0.length)
+  let faceOrigin = new Uint32Array(nf0)
+  let nf = 0
+  let degenerate = 0
+  const degFaces: number[] = []
+  for (let f = 0; f < nf0; f++) {
+    const a = weldMap[I0[3 * f]!]!, b = weldMap[I0[3 * f + 1]!]!, c = weldMap[I0[3 * f + 2]!]!
+    let deg = a === b || b === c || c === a
+    if (!deg) {
+      const ra = 3 * reps[a]!, rb = 3 * reps[b]!, rc = 3 * reps[c]!
+      const ux = P0[rb]! - P0[ra]!, uy = P0[rb + 1]! - P0[ra + 1]!, uz = P0[rb + 2]! - P0[ra + 2]!
+      const vx = P0[rc]! - P0[ra]!, vy = P0[rc + 1]! - P0[ra + 1]!, vz = P0[rc + 2]! - P0[ra + 2]!
+      const wx = vx - ux, wy = vy - uy, wz = vz - uz
+      const cx = uy * vz - uz * vy, cy = uz * vx - ux * vz, cz = ux * vy - uy * vx
+      const cross2 = cx * cx + cy * cy + cz * cz
+      const e2 = Math.max(ux * ux + uy * uy + uz * uz, vx * vx + vy * vy + vz * vz, wx * wx + wy * wy + wz * wz)
+      deg = cross2 <= 1e-24 * e2 * e2
+    }
+    if (deg) { degenerate++; if (degFaces.length < MAX_LISTED) degFaces.push(f); continue }
+    I[3 * nf] = a; I[3 * nf + 1] = b; I[3 * nf + 2] = c
+    faceOrigin[nf] = f
+    nf++
+  }
+  if (nf === 0) throw new GeometryError('degenerate-face', `validateMesh: all ${nf0} faces are degenerate (zero area)`, issuesFor(degFaces, 'zero-area face'))
+  if (nf < nf0) { I = I.slice(0, 3 * nf); faceOrigin = faceOrigin.slice(0, nf) }
+
+  // 5. drop unreferenced vertices, build compact positions
+  const used = new Int32Array(nvWeld).fill(-1)
+  let nv = 0
+  for (let i = 0; i < I.length; i++) { const v = I[i]!; if (used[v] === -1) used[v] = 0 }
+  for (let v = 0; v < nvWeld; v++) if (used[v] === 0) used[v] = nv++
+  // renumbering keeps the vertex order, so with no unreferenced vertices it is the identity
+  if (nv < nvWeld) for (let i = 0; i < I.length; i++) I[i] = used[I[i]!]!
+  const P = new Float64Array(nv * 3)
+  for (let v = 0; v < nvWeld; v++) {
+    const u = used[v]!
+    if (u >= 0) { const r = 3 * reps[v]!; P[3 * u] = P0[r]!; P[3 * u + 1] = P0[r + 1]!; P[3 * u + 2] = P0[r + 2]! }
+  }
+  const unreferenced = nvWeld - nv
+  if (weldedVertices > 0) warnings.push({ code: 'welded-vertices', message: `${weldedVertices} duplicate vertices welded (tolerance ${tol.toExponential(3)} m)` })
+  if (unreferenced > 0) warnings.push({ code: 'unreferenced-vertices', message: `${unreferenced} vertices used by no face were removed` })
+
+  // 6. edges
+  // the first analysis is still valid when nothing was welded, dropped or renumbered
+  let E = E0 && !doWeld && nf === nf0 && nv === nv0 ? E0 : analyseEdges(I, nv)
+  if (E.boundary > 0 || E.nonManifold > 0) {
+    if (E.nonManifold > 0) {
+      const f = E.nonManifoldFaces.map(x => faceOrigin[x]!)
+      throw new GeometryError('non-manifold-edge', `validateMesh: ${E.nonManifold} edges are shared by more than two faces; first faces: ${f.join(', ')}`, issuesFor(f, 'edge shared by more than two faces'))
+    }
+    const f = E.boundaryFaces.map(x => faceOrigin[x]!)
+    if (degenerate > 0) {
+      // was it closed before the degenerate faces were dropped?
+      const withDeg = new Uint32Array(nf0 * 3)
+      for (let i = 0; i < I0.length; i++) withDeg[i] = weldMap[I0[i]!]!
+      const E2 = analyseEdges(withDeg, nvWeld, true)
+      if (E2.boundary === 0) {
+        throw new GeometryError('degenerate-face', `validateMesh: ${degenerate} zero-area faces cannot be dropped without opening the mesh (${E.boundary} boundary edges would remain); first degenerate faces: ${degFaces.join(', ')}`, issuesFor(degFaces, 'zero-area face'))
+      }
+    }
+    throw new GeometryError('open-mesh', `validateMesh: the mesh is open: ${E.boundary} boundary edges (edges used by one face only); first faces: ${f.join(', ')}`, issuesFor(f, 'face with a boundary edge'))
+  }
+  if (degenerate > 0) warnings.push({ code: 'degenerate-faces', message: `${degenerate} zero-area faces were dropped; first: ${degFaces.join(', ')}` })
+
+  // 7. orientation: BFS over faces through edges; components
+  const flip = new Int8Array(nf).fill(-1)
+  const comp = new Int32Array(nf)
+  const queue = new Uint32Array(nf)
+  const compSizes: number[] = []
+  const compFlips: number[] = []
+  const badOrient: number[] = []
+  let nComp = 0
+  const twinA = E.twin, sameA = E.sameDir
+  for (let s = 0; s < nf; s++) {
+    if (flip[s] !== -1) continue
+    let head = 0, tail = 0
+    queue[tail++] = s
+    flip[s] = 0
+    comp[s] = nComp
+    let size = 0, flips = 0
+    while (head < tail) {
+      const f = queue[head++]!
+      size++
+      const ff = flip[f]!
+      flips += ff
+      for (let k = 0; k < 3; k++) {
+        const h = 3 * f + k
+        const g = (twinA[h]! / 3) | 0
+        const want = sameA[h] ? 1 - ff : ff
+        if (flip[g] === -1) { flip[g] = want; comp[g] = nComp; queue[tail++] = g } else if (flip[g] !== want && badOrient.length < MAX_LISTED) badOrient.push(faceOrigin[g]!)
+      }
+    }
+    compSizes.push(size)
+    compFlips.push(flips)
+    nComp++
+  }
+  if (badOrient.length > 0) throw new GeometryError('non-orientable', `validateMesh: the surface is not orientable (no consistent winding exists, e.g. a Möbius band); faces involved include: ${badOrient.join(', ')}`, issuesFor(badOrient, 'inconsistent winding that cannot be fixed'))
+  // keep the majority winding of each component
+  const invertBfs = compFlips.map((fl, c) => fl * 2 > compSizes[c]!)
+  let flippedFaces = 0
+  for (let f = 0; f < nf; f++) {
+    let fl = flip[f]!
+    if (invertBfs[comp[f]!]) fl = 1 - fl
+    flip[f] = fl
+    if (fl) { flippedFaces++; const t = I[3 * f + 1]!; I[3 * f + 1] = I[3 * f + 2]!; I[3 * f + 2] = t }
+  }
+  if (flippedFaces > 0) {
+    warnings.push({ code: 'inconsistent-winding', message: `${flippedFaces} faces had a winding opposite to their neighbours and were reversed` })
+    E = analyseEdges(I, nv)
+  }
+
+  // 8. vertex fans must be single disks
+  {
+    const { start, he, twin } = E
+    let bad = 0
+    const first: number[] = []
+    for (let v = 0; v < nv; v++) {
+      const deg = start[v + 1]! - start[v]!
+      const h0 = he[start[v]!]!
+      let g = h0, steps = 0
+      do {
+        const p = g % 3 === 0 ? g + 2 : g - 1 // half-edge into v in the same face
+        g = twin[p]!
+        steps++
+      } while (g !== h0 && steps <= deg)
+      if (steps !== deg) { bad++; if (first.length < MAX_LISTED) first.push(faceOrigin[(h0 / 3) | 0]!) }
+    }
+    if (bad > 0) throw new GeometryError('non-manifold-vertex', `validateMesh: ${bad} vertices are non-manifold (their faces form more than one fan, e.g. two bodies touching at a point); first faces at such vertices: ${first.join(', ')}`, issuesFor(first, 'face at a non-manifold vertex'))
+  }
+
+  // 9. signed volume per component; reverse inside-out components
+  const cx = (minx + maxx) / 2, cy = (miny + maxy) / 2, cz = (minz + maxz) / 2
+  const vol = new Float64Array(nComp)
+  for (let f = 0; f < nf; f++) {
+    const a = 3 * I[3 * f]!, b = 3 * I[3 * f + 1]!, c = 3 * I[3 * f + 2]!
+    const ax = P[a]! - cx, ay = P[a + 1]! - cy, az = P[a + 2]! - cz
+    const bx = P[b]! - cx, by = P[b + 1]! - cy, bz = P[b + 2]! - cz
+    const qx = P[c]! - cx, qy = P[c + 1]! - cy, qz = P[c + 2]! - cz
+    vol[comp[f]!] += ax * (by * qz - bz * qy) + ay * (bz * qx - bx * qz) + az * (bx * qy - by * qx)
+  }
+  let invertedComponents = 0
+  let volume = 0
+  for (let c = 0; c < nComp; c++) { if (vol[c]! < 0) invertedComponents++; volume += Math.abs(vol[c]!) / 6 }
+  if (invertedComponents > 0) {
+    for (let f = 0; f < nf; f++) {
+      if (vol[comp[f]!]! < 0) { const t = I[3 * f + 1]!; I[3 * f + 1] = I[3 * f + 2]!; I[3 * f + 2] = t }
+    }
+    warnings.push({ code: 'inverted-orientation', message: `${invertedComponents} of ${nComp} components were inside-out (negative volume) and were reversed` })
+  }
+  const componentFaceCounts = compSizes.slice().sort((a, b) => b - a)
+  if (nComp > 1) warnings.push({ code: 'multiple-components', message: `the mesh has ${nComp} separate components (faces per component: ${componentFaceCounts.slice(0, 10).join(', ')}${nComp > 10 ? ', ...' : ''}); each is treated as a separate solid` })
+
+  // 10. self-intersections (three-mesh-bvh), where affordable
+  const maxSI = opts.selfIntersectionMaxFaces ?? 300_000
+  let selfIntersections: ValidationReport['selfIntersections'] = { checked: false, count: 0, firstPairs: [] }
+  if (nf <= maxSI) {
+    selfIntersections = findSelfIntersections({ positions: P, indices: I })
+    selfIntersections.firstPairs = selfIntersections.firstPairs.map(([a, b]) => [faceOrigin[a]!, faceOrigin[b]!])
+    if (selfIntersections.count > 0) warnings.push({ code: 'self-intersections', message: `${selfIntersections.count} pairs of non-adjacent faces intersect; volume and gravity are unreliable` })
+  } else {
+    warnings.push({ code: 'self-intersection-not-checked', message: `self-intersections were not checked (${nf} faces > ${maxSI})` })
+  }
+
+  const report: ValidationReport = {
+    warnings,
+    vertexCount: nv,
+    faceCount: nf,
+    inputVertexCount: nv0,
+    inputFaceCount: nf0,
+    weldedVertices,
+    weldToleranceMetres: tol,
+    unreferencedVertices: unreferenced,
+    degenerateFaces: degenerate,
+    flippedFaces,
+    invertedOrientation: invertedComponents > 0,
+    invertedComponents,
+    components: nComp,
+    componentFaceCounts,
+    volume,
+    selfIntersections,
+    faceOrigin,
+  }
+  return { mesh: { positions: P, indices: I }, report }
+}
+
+function identityWeld(nv: number) {
+  const map = new Uint32Array(nv)
+  for (let v = 0; v < nv; v++) map[v] = v
+  return { map, count: nv, reps: map }
+}
+
+/**
+ * Weld vertices closer than `tol` (m): spatial hash with cells of max(8·tol, 1e-9·diag); a vertex
+ * is compared with the representatives in its cell and, when it lies within tol of a cell face,
+ * the neighbouring cells. Returns map (old → new index), count, reps (new → old representative).
+ */
+function weld(P: Float64Array, nv: number, minx: number, miny: number, minz: number, diag: number, tol: number) {
+  const map = new Uint32Array(nv)
+  const reps = new Uint32Array(nv)
+  const C = Math.max(8 * tol, 1e-9 * diag) || 1
+  let cap = 1
+  while (cap < 2 * nv) cap <<= 1
+  const mask = cap - 1
+  const kx = new Int32Array(cap), ky = new Int32Array(cap), kz = new Int32Array(cap)
+  const head = new Int32Array(cap).fill(-1)
+  const next = new Int32Array(nv) // chain of representatives per cell (new indices)
+  const tol2 = tol * tol
+  const r = tol / C
+  let count = 0
+  const find = (ix: number, iy: number, iz: number): number => {
+    let h = (Math.imul(ix, 73856093) ^ Math.imul(iy, 19349663) ^ Math.imul(iz, 83492791)) & mask
+    for (;;) {
+      if (head[h] === -1 || (kx[h] === ix && ky[h] === iy && kz[h] === iz)) return h
+      h = (h + 1) & mask
+    }
+  }
+  for (let v = 0; v < nv; v++) {
+    const x = P[3 * v]!, y = P[3 * v + 1]!, z = P[3 * v + 2]!
+    const fx = (x - minx) / C, fy = (y - miny) / C, fz = (z - minz) / C
+    const ix = Math.floor(fx), iy = Math.floor(fy), iz = Math.floor(fz)
+    let found = -1
+    const x0 = Math.floor(fx - r), x1 = Math.floor(fx + r)
+    const y0 = Math.floor(fy - r), y1 = Math.floor(fy + r)
+    const z0 = Math.floor(fz - r), z1 = Math.floor(fz + r)
+    search:
+    for (let ax = x0; ax <= x1; ax++) {
+      for (let ay = y0; ay <= y1; ay++) {
+        for (let az = z0; az <= z1; az++) {
+          const h = find(ax, ay, az)
+          for (let u = head[h]!; u !== -1; u = next[u]!) {
+            const q = 3 * reps[u]!
+            const dx = P[q]! - x, dy = P[q + 1]! - y, dz = P[q + 2]! - z
+            if (dx * dx + dy * dy + dz * dz <= tol2) { found = u; break search }
+          }
+        }
+      }
+    }
+    if (found >= 0) { map[v] = found; continue }
+    const u = count++
+    reps[u] = v
+    map[v] = u
+    const h = find(ix, iy, iz)
+    if (head[h] === -1) { kx[h] = ix; ky[h] = iy; kz[h] = iz }
+    next[u] = head[h]!
+    head[h] = u
+  }
+  return { map, count, reps }
+}
+
+export interface EdgeAnalysis {
+  /** CSR of half-edges by source vertex: he[start[v] .. start[v+1]) are half-edge ids 3f+k out of v. */
+  start: Uint32Array
+  he: Uint32Array
+  /** Target vertex of he[k]. */
+  tgt: Uint32Array
+  /** Other half-edge on the same edge, or −1 (boundary / non-manifold). */
+  twin: Int32Array
+  /** 1 when the twin runs in the same direction (inconsistent winding). */
+  sameDir: Uint8Array
+  boundary: number
+  nonManifold: number
+  boundaryFaces: number[]
+  nonManifoldFaces: number[]
+}
+
+/**
+ * Edge incidence by vertex-sorted half-edge lists. Half-edge 3f+k runs from corner k to corner
+ * k+1 of face f. `skipDegenerate` ignores half-edges with equal ends.
+ */
+export function analyseEdges(I: Uint32Array, nv: number, skipDegenerate = false): EdgeAnalysis {
+  const nh = I.length
+  const start = new Uint32Array(nv + 1)
+  for (let h = 0; h < nh; h += 3) {
+    const a = I[h]!, b = I[h + 1]!, c = I[h + 2]!
+    if (skipDegenerate) {
+      if (a !== b) start[a + 1]!++
+      if (b !== c) start[b + 1]!++
+      if (c !== a) start[c + 1]!++
+    } else { start[a + 1]!++; start[b + 1]!++; start[c + 1]!++ }
+  }
+  for (let v = 0; v < nv; v++) start[v + 1] += start[v]!
+  const fill = start.slice(0, nv)
+  const he = new Uint32Array(nh)
+  const tgt = new Uint32Array(nh)
+  for (let h = 0; h < nh; h += 3) {
+    const a = I[h]!, b = I[h + 1]!, c = I[h + 2]!
+    let k: number
+    if (!skipDegenerate || a !== b) { k = fill[a]!++; he[k] = h; tgt[k] = b }
+    if (!skipDegenerate || b !== c) { k = fill[b]!++; he[k] = h + 1; tgt[k] = c }
+    if (!skipDegenerate || c !== a) { k = fill[c]!++; he[k] = h + 2; tgt[k] = a }
+  }
+  const twin = new Int32Array(nh).fill(-1)
+  const sameDir = new Uint8Array(nh)
+  let boundary = 0, nonManifold = 0
+  const boundaryFaces: number[] = [], nonManifoldFaces: number[] = []
+  for (let v = 0; v < nv; v++) {
+    const s0 = start[v]!, s1 = start[v + 1]!
+    for (let k = s0; k < s1; k++) {
+      const b = tgt[k]!
+      const h = he[k]!
+      // common case first: exactly one opposite half-edge b→a, and a→b not duplicated (a
+      // duplicate a→b would make the b→a half-edge see two opposites and take the slow path)
+      let nOpp = 0, oppH = -1
+      const t0 = start[b]!, t1 = start[b + 1]!
+      for (let k3 = t0; k3 < t1; k3++) {
+        if (tgt[k3] === v) { nOpp++; oppH = he[k3]! }
+      }
+      if (nOpp === 1) {
+        // is b→a itself seeing a duplicate a→b? count a→b in our own list
+        let dup = false
+        for (let k2 = s0; k2 < s1; k2++) if (k2 !== k && tgt[k2] === b) { dup = true; break }
+        if (!dup) { twin[h] = oppH; continue }
+      }
+      let nSame = 0, sameH = -1, minH = h
+      for (let k2 = s0; k2 < s1; k2++) {
+        if (k2 !== k && tgt[k2] === b) { nSame++; sameH = he[k2]!; if (sameH < minH) minH = sameH }
+      }
+      for (let k3 = t0; k3 < t1; k3++) {
+        if (tgt[k3] === v) { const o = he[k3]!; if (o < minH) minH = o }
+      }
+      const total = 1 + nSame + nOpp
+      if (total === 2) {
+        if (nSame) { twin[h] = sameH; sameDir[h] = 1 } else twin[h] = oppH
+      } else if (total === 1) {
+        boundary++
+        if (boundaryFaces.length < MAX_LISTED) boundaryFaces.push((h / 3) | 0)
+      } else if (minH === h) {
+        nonManifold++
+        if (nonManifoldFaces.length < MAX_LISTED) nonManifoldFaces.push((h / 3) | 0)
+      }
+    }
+  }
+  return { start, he, tgt, twin, sameDir, boundary, nonManifold, boundaryFaces, nonManifoldFaces }
+}
+
+/**
+ * Pairs of faces that intersect and share no vertex, using a three-mesh-bvh BVH built on a
+ * Float32 copy (`indirect: true`, so the index order is kept) cast against itself. Pairs that
+ * share a vertex are not tested. Triangle tests use three-mesh-bvh's ExtendedTriangle (float32).
+ */
+export function findSelfIntersections(mesh: TriMesh, maxPairs = 10): { checked: true, count: number, firstPairs: [number, number][] } {
+  const geom = new BufferGeometry()
+  geom.setAttribute('position', new BufferAttribute(Float32Array.from(mesh.positions), 3))
+  geom.setIndex(new BufferAttribute(mesh.indices.slice(), 1))
+  const bvh = new MeshBVH(geom, { indirect: true, targetLeafSize: 8 })
+  const I = mesh.indices
+  const P = mesh.positions
+  const t1 = new ExtendedTriangle(), t2 = new ExtendedTriangle()
+  const setTri = (t: ExtendedTriangle, f: number) => {
+    const a = 3 * I[3 * f]!, b = 3 * I[3 * f + 1]!, c = 3 * I[3 * f + 2]!
+    t.a.set(P[a]!, P[a + 1]!, P[a + 2]!); t.b.set(P[b]!, P[b + 1]!, P[b + 2]!); t.c.set(P[c]!, P[c + 1]!, P[c + 2]!)
+    t.needsUpdate = true
+  }
+  let count = 0
+  const firstPairs: [number, number][] = []
+  const resolve = (i: number) => bvh.resolveTriangleIndex(i)
+  bvh.bvhcast(bvh, new Matrix4(), {
+    intersectsRanges(o1: number, c1: number, o2: number, c2: number) {
+      for (let i = o1; i < o1 + c1; i++) {
+        const f = resolve(i)
+        const fa = I[3 * f]!, fb = I[3 * f + 1]!, fc = I[3 * f + 2]!
+        let setF = false
+        for (let j = o2; j < o2 + c2; j++) {
+          const g = resolve(j)
+          if (g <= f) continue
+          const ga = I[3 * g]!, gb = I[3 * g + 1]!, gc = I[3 * g + 2]!
+          if (ga === fa || ga === fb || ga === fc || gb === fa || gb === fb || gb === fc || gc === fa || gc === fb || gc === fc) continue
+          if (!setF) { setTri(t1, f); setF = true }
+          setTri(t2, g)
+          if (t1.intersectsTriangle(t2, null, true)) {
+            count++
+            if (firstPairs.length < maxPairs) firstPairs.push([f, g])
+          }
+        }
+      }
+      return false
+    },
+  })
+  geom.dispose()
+  return { checked: true, count, firstPairs }
+}
+
+/**
+ * Connected components of faces joined through shared vertices (union-find on vertices).
+ * Returns a component label per face (0 .. count−1, in order of first face) and the count.
+ */
+export function faceComponents(mesh: TriMesh): { label: Uint32Array, count: number } {
+  const I = mesh.indices
+  const nv = mesh.positions.length / 3
+  const parent = new Uint32Array(nv)
+  for (let v = 0; v < nv; v++) parent[v] = v
+  const root = (v: number): number => {
+    while (parent[v] !== v) { parent[v] = parent[parent[v]!]!; v = parent[v]! }
+    return v
+  }
+  for (let i = 0; i < I.length; i += 3) {
+    const a = root(I[i]!), b = root(I[i + 1]!), c = root(I[i + 2]!)
+    if (a !== b) parent[b] = a
+    const c2 = root(c)
+    const a2 = root(a)
+    if (c2 !== a2) parent[c2] = a2
+  }
+  const lab = new Int32Array(nv).fill(-1)
+  const label = new Uint32Array(I.length / 3)
+  let count = 0
+  for (let f = 0; f < label.length; f++) {
+    const r = root(I[3 * f]!)
+    if (lab[r] === -1) lab[r] = count++
+    label[f] = lab[r]!
+  }
+  return { label, count }
+}
