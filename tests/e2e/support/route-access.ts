@@ -1,0 +1,36 @@
+/**
+ * Who may call each route: 'public', or the role it needs ('viewer' = any signed-in member;
+ * admins pass every check). One row per route of the built server; roles.test.ts fails when a
+ * route has no row or a row has no route.
+ */
+export type Access = 'public' | 'viewer' | 'reviewer' | 'analyst' | 'admin'
+
+export const ROUTE_ACCESS: Record<string, Access> = {
+  'GET /api/health': 'public',
+  'POST /api/session': 'public',
+  'GET /api/session': 'public',
+  'DELETE /api/session': 'public',
+  'GET /api/_auth/session': 'public',
+  'DELETE /api/_auth/session': 'public',
+  'GET /api/join/:token': 'public',
+  'POST /api/join/:token': 'public',
+  'POST /api/password-resets': 'public',
+  'GET /api/password-resets/:token': 'public',
+  'POST /api/password-resets/:token': 'public',
+
+  'GET /api/account': 'viewer',
+  'PATCH /api/account': 'viewer',
+  'POST /api/account/password': 'viewer',
+  'GET /api/account/tokens': 'viewer',
+  'POST /api/account/tokens': 'viewer',
+  'DELETE /api/account/tokens/:id': 'viewer',
+
+  'GET /api/members': 'admin',
+  'PATCH /api/members/:id': 'admin',
+  'GET /api/invitations': 'admin',
+  'POST /api/invitations': 'admin',
+  'POST /api/invitations/:id/revoke': 'admin',
+  'GET /api/mail-drop': 'admin',
+  'GET /api/mail-drop/:id': 'admin',
+  'GET /api/audit': 'admin',
+}
