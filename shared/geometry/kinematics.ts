@@ -11,8 +11,10 @@ import type { Vec3 } from './types'
 import { GeometryError } from './types'
 import { add, angleBetweenDeg, anyPerpendicular, cross, dot, norm, normalize, rejectFrom, scale } from './quat'
 
-/** Newtonian constant of gravitation, m³ kg⁻¹ s⁻² (CODATA 2018). */
-export const G = 6.67430e-11
+import { G } from './mass'
+
+/** Newtonian constant of gravitation, m³ kg⁻¹ s⁻² (CODATA 2018), as used by mass.ts. */
+export { G }
 
 /** Relative orbit of B about A before contact. Pericentre default 0 (head-on). */
 export type RelativeOrbit =
