@@ -5,14 +5,8 @@ import pkg from './package.json' with { type: 'json' }
 
 // The project root is the source directory (no app/ folder): pages/, components/, stores/ at the top.
 export default defineNuxtConfig({
-  compatibilityDate: '2026-11-01',
-  devtools: { enabled: false },
-  telemetry: false,
   modules: ['@pinia/nuxt', '@nuxtjs/tailwindcss', 'nuxt-auth-utils'],
-  css: ['~/assets/css/main.css'],
-  vue: { compilerOptions: templateCompilerOptions.compilerOptions },
-  build: { transpile: [/@tresjs/] },
-  typescript: { strict: true, typeCheck: false },
+  devtools: { enabled: false },
   app: {
     head: {
       htmlAttrs: { lang: 'en' },
@@ -24,14 +18,18 @@ export default defineNuxtConfig({
       link: [{ rel: 'icon', type: 'image/svg+xml', href: '/favicon.svg' }],
     },
   },
+  css: ['~/assets/css/main.css'],
+  vue: { compilerOptions: templateCompilerOptions.template.compilerOptions },
   runtimeConfig: {
     version: pkg.version,
     // Everything below is read from the environment at start by server/utils/config.ts,
     // so the built server honours DATABASE_URL, UPLOADS_DIR, SMTP_URL, ... as documented.
     session: { maxAge: 60 * 60 * 24 * 7 },
   },
-  tailwindcss: { configPath: 'tailwind.config.ts', cssPath: false },
+  build: { transpile: [/@tresjs/] },
+  compatibilityDate: '2026-11-01',
   nitro: {
+    typescript: { tsConfig: { compilerOptions: { noUncheckedIndexedAccess: false } } },
     externals: { external: ['manifold-3d'] },
     experimental: { tasks: false },
     hooks: {
@@ -58,4 +56,15 @@ export default defineNuxtConfig({
       },
     ],
   },
+  // Strict, but without noUncheckedIndexedAccess: the numerical core indexes typed arrays in hot
+  // loops, where `number | undefined` on every read would only add noise.
+  typescript: {
+    strict: true,
+    typeCheck: false,
+    tsConfig: { compilerOptions: { noUncheckedIndexedAccess: false } },
+    sharedTsConfig: { compilerOptions: { noUncheckedIndexedAccess: false } },
+    nodeTsConfig: { compilerOptions: { noUncheckedIndexedAccess: false } },
+  },
+  telemetry: false,
+  tailwindcss: { configPath: 'tailwind.config.ts', cssPath: false },
 })

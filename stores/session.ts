@@ -19,8 +19,8 @@ export const useSessionStore = defineStore('session', {
   },
   actions: {
     async refresh() {
-      const fetcher = import.meta.server ? useRequestFetch() : $fetch
-      const { user } = await fetcher<{ user: SessionMember | null }>('/api/session')
+      // During SSR the browser's cookie is forwarded so the server sees the same member.
+      const { user } = await $fetch<{ user: SessionMember | null }>('/api/session', { headers: useRequestHeaders(['cookie']) })
       this.member = user
       this.loaded = true
     },

@@ -19,7 +19,7 @@ export async function assertSigninAllowed(event: H3Event, keys: string[]) {
   if (over.length) {
     const retryMs = Math.max(...over.map(r => Number(r.oldest) + signinWindowMs - Date.now()))
     const retryAfter = Math.max(1, Math.ceil(retryMs / 1000))
-    setResponseHeader(event, 'retry-after', String(retryAfter))
+    setResponseHeader(event, 'Retry-After', retryAfter)
     throw createError({
       status: 429,
       statusText: 'Too Many Requests',
