@@ -256,7 +256,7 @@ export function validateMesh(mesh: TriMesh, opts: ValidateOptions = {}): { mesh:
     const ax = P[a]! - cx, ay = P[a + 1]! - cy, az = P[a + 2]! - cz
     const bx = P[b]! - cx, by = P[b + 1]! - cy, bz = P[b + 2]! - cz
     const qx = P[c]! - cx, qy = P[c + 1]! - cy, qz = P[c + 2]! - cz
-    vol[comp[f]!] += ax * (by * qz - bz * qy) + ay * (bz * qx - bx * qz) + az * (bx * qy - by * qx)
+    vol[comp[f]!] = vol[comp[f]!]! + ax * (by * qz - bz * qy) + ay * (bz * qx - bx * qz) + az * (bx * qy - by * qx)
   }
   let invertedComponents = 0
   let volume = 0
@@ -398,7 +398,7 @@ export function analyseEdges(I: Uint32Array, nv: number, skipDegenerate = false)
       if (c !== a) start[c + 1]!++
     } else { start[a + 1]!++; start[b + 1]!++; start[c + 1]!++ }
   }
-  for (let v = 0; v < nv; v++) start[v + 1] += start[v]!
+  for (let v = 0; v < nv; v++) start[v + 1] = start[v + 1]! + start[v]!
   const fill = start.slice(0, nv)
   const he = new Uint32Array(nh)
   const tgt = new Uint32Array(nh)
@@ -487,7 +487,7 @@ export function findSelfIntersections(mesh: TriMesh, maxPairs = 10): { checked: 
           if (ga === fa || ga === fb || ga === fc || gb === fa || gb === fb || gb === fc || gc === fa || gc === fb || gc === fc) continue
           if (!setF) { setTri(t1, f); setF = true }
           setTri(t2, g)
-          if (t1.intersectsTriangle(t2, null, true)) {
+          if ((t1.intersectsTriangle as unknown as (o: ExtendedTriangle, t: null, quiet: boolean) => boolean).call(t1, t2, null, true)) {
             count++
             if (firstPairs.length < maxPairs) firstPairs.push([f, g])
           }
