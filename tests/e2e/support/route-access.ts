@@ -3,6 +3,9 @@
  * admins pass every check). One row per route of the built server; roles.test.ts fails when a
  * route has no row or a row has no route.
  */
+import { RECORD_ROUTE_ACCESS } from './route-access-records'
+import { STUDY_ROUTE_ACCESS } from './route-access-studies'
+
 export type Access = 'public' | 'viewer' | 'reviewer' | 'analyst' | 'admin'
 
 export const ROUTE_ACCESS: Record<string, Access> = {
@@ -33,4 +36,18 @@ export const ROUTE_ACCESS: Record<string, Access> = {
   'GET /api/mail-drop': 'admin',
   'GET /api/mail-drop/:id': 'admin',
   'GET /api/audit': 'admin',
+
+  // Lobes (owner-or-admin for DELETE is checked beyond the role: see lobes.test.ts).
+  'GET /api/lobes': 'viewer',
+  'POST /api/lobes': 'analyst',
+  'GET /api/lobes/:id': 'viewer',
+  'PATCH /api/lobes/:id': 'analyst',
+  'DELETE /api/lobes/:id': 'analyst',
+  'GET /api/lobes/:id/mesh': 'viewer',
+  'GET /api/lobes/:id/fields': 'viewer',
+  'GET /api/lobes/:id/export.json': 'viewer',
+  'GET /api/lobes/:id/export.csv': 'viewer',
+
+  ...STUDY_ROUTE_ACCESS,
+  ...RECORD_ROUTE_ACCESS,
 }
