@@ -1,0 +1,189 @@
+/**
+ * `runContactStudy`: the whole contact study for two lobe meshes — first contact, kinematics,
+ * full-shape mutual potential, neck and union at the chosen overlap, merged body, neck sweep,
+ * pathway screen and spread — with progress reports and cooperative cancellation.
+ * Frames: contact frame (A's file axes, origin at A's centroid). SI units.
+ */
+import type { Quat, TriMesh, Vec3 } from './types'
+import { GeometryError } from './types'
+import { G, massProperties } from './mass'
+import { ContactBvhCache, applyPose, firstContact, meshInContactFrame } from './contact'
+import type { Pose } from './contact'
+import { contactKinematics } from './kinematics'
+import type { NoContact, RelativeOrbit } from './kinematics'
+import { fullShapeSpeeds, mutualPotential } from './mutual'
+import { neckAtDepth, neckSweep } from './neck'
+import type { Neck } from './neck'
+import { mergedBody } from './merged'
+import type { LobeSpin, MassModel, MergedBody } from './merged'
+import { pathwayScreen } from './screen'
+import type { PathwayScreen, ScreenInput } from './screen'
+import { createSpreadContext, runSpread } from './spread'
+import type { SpreadSpec, SpreadSummary } from './spread'
+import { mergeMeshes } from './generate'
+import { dot, normalize, scale } from './quat'
+
+export const CONTACT_ALGORITHM_VERSION = 'contact-1.0.0'
+
+export interface ContactStudyInput {
+  meshA: TriMesh
+  meshB: TriMesh
+  /** Lobe densities, kg m⁻³. */
+  densityA: number
+  densityB: number
+  /** B's orientation (active, B file → A axes). Default identity. */
+  orientationB?: Quat
+  /** Line of centres A → B (A's axes). */
+  direction: Vec3
+  orbit: RelativeOrbit
+  orbitNormal?: Vec3
+  /** Extra approach beyond first contact for the neck and merged body, m (default 0). */
+  overlapDepth?: number
+  massModel: MassModel
+  spinA?: LobeSpin
+  spinB?: LobeSpin
+  observedSpinPeriod?: number
+  /** Neck-sweep intervals from 0 to R_small/4 (default 4; 0 = no sweep). */
+  sweepSteps?: number
+  /** Heliocentric part of the screen (the rest comes from the study); omit for no screen. */
+  screen?: Pick<ScreenInput, 'semiMajorAxis' | 'eccentricity' | 'inclinationDeg' | 'heliocentricSemiMajorAxis' | 'heliocentricEccentricity' | 'klPrefactor'>
+  spread?: SpreadSpec
+  /** Mutual-potential quadrature (defaults order 2, maxFaces 1000). */
+  mutual?: { order?: number, maxFaces?: number }
+  /** BVH cache and keys (e.g. mesh content hashes). */
+  cache?: ContactBvhCache
+  keyA?: string
+  keyB?: string
+}
+
+export interface ContactResult {
+  separation: number
+  point: Vec3
+  normalA: Vec3
+  normalB: Vec3
+  poseB: Pose
+  speed: number
+  escapeSpeed: number
+  sphereEquivalentEscapeSpeed: number
+  speedRatio: number
+  radialSpeed: number
+  tangentialSpeed: number
+  normalSpeed: number
+  impactAngleFromNormalDeg: number
+  impactAngleFromTangentDeg: number
+  orbitalAngularMomentum: Vec3
+  massRatio: number
+  speedFullShape: number
+  escapeSpeedFullShape: number
+  /** Quadrature report of the full-shape figures. */
+  mutualPotential: { W: number, order: number, convergence: number | null, facesA: number, facesB: number, simplified: boolean }
+}
+
+export interface ContactStudyResult {
+  contact: ContactResult | (NoContact & { separation: number })
+  neck: Neck | null
+  merged: MergedBody | null
+  sweep: { overlapDepth: number, equivalentRadius: number, area: number, overlapVolume: number }[] | null
+  screen: PathwayScreen | null
+  spread: SpreadSummary | null
+  massModel: MassModel
+  algorithmVersion: string
+}
+
+export interface StudyOptions {
+  /** Progress 0..1 with a stage name. */
+  onProgress?: (fraction: number, stage: string) => void
+  signal?: AbortSignal
+}
+
+/**
+ * Compose the full contact study. Throws GeometryError('ABORTED') when `signal` fires (checked
+ * between stages and inside the long loops), and the stage errors otherwise.
+ */
+export async function runContactStudy(input: ContactStudyInput, opts: StudyOptions = {}): Promise<ContactStudyResult> {
+  const report = (f: number, s: string) => opts.onProgress?.(f, s)
+  const check = () => { if (opts.signal?.aborted) throw new GeometryError('ABORTED', 'runContactStudy: cancelled') }
+  const cache = input.cache ?? new ContactBvhCache()
+  const depth = input.overlapDepth ?? 0
+  report(0, 'mass properties')
+  const pA = massProperties(input.meshA, { density: input.densityA })
+  const pB = massProperties(input.meshB, { density: input.densityB })
+  check(); report(0.05, 'first contact')
+  const fc = firstContact({ meshA: input.meshA, meshB: input.meshB, centroidA: pA.centroid, centroidB: pB.centroid, orientationB: input.orientationB, direction: input.direction }, { cache, keyA: input.keyA, keyB: input.keyB })
+  check(); report(0.15, 'kinematics')
+  const kin = contactKinematics({
+    massA: pA.mass, massB: pB.mass, separation: fc.separation, direction: fc.direction, orbitNormal: input.orbitNormal, largestMomentAxisA: pA.principalAxes[2],
+    contactNormal: fc.normalA, equivalentRadiusA: pA.equivalentRadius, equivalentRadiusB: pB.equivalentRadius, orbit: input.orbit,
+  })
+  const screen = input.screen
+    ? pathwayScreen({ ...input.screen, massA: pA.mass, massB: pB.mass, J2A: pA.J2, referenceRadiusA: pA.referenceRadius, J2B: pB.J2, referenceRadiusB: pB.referenceRadius, contactSeparation: fc.separation })
+    : null
+  if (!kin.contact) {
+    report(1, 'done')
+    return { contact: kin, neck: null, merged: null, sweep: null, screen, spread: null, massModel: input.massModel, algorithmVersion: CONTACT_ALGORITHM_VERSION }
+  }
+  report(0.2, 'full-shape mutual potential')
+  const mp = await mutualPotential(input.meshA, input.densityA, pA.centroid, input.meshB, input.densityB, fc.poseB, { ...input.mutual, signal: opts.signal })
+  const fs = fullShapeSpeeds(mp.W, pA.mass, pB.mass, input.orbit, G)
+  check(); report(0.4, 'neck and union')
+  const smaller = Math.min(pA.equivalentRadius, pB.equivalentRadius)
+  const Ac = meshInContactFrame(input.meshA, pA.centroid)
+  const neckInput = { meshAContact: Ac, meshB: input.meshB, poseB: fc.poseB, direction: fc.direction, separation: fc.separation, contactPoint: fc.point, contactNormal: fc.normalA, smallerLobeRadius: smaller }
+  const nk = await neckAtDepth(neckInput, depth, { signal: opts.signal })
+  check(); report(0.6, 'merged body')
+  const union = nk.union ?? mergeMeshes([Ac, applyPose(input.meshB, fc.poseB)])
+  // The full-shape attraction along the line (force on B toward A) for the separation period.
+  const fLine = -dot(mp.force, fc.direction)
+  const merged = mergedBody({
+    union, propsA: pA, propsB: pB, poseB: nk.union ? { ...fc.poseB, translation: fc.poseB.translation.map((t, i) => t - fc.direction[i] * depth) as Vec3 } : fc.poseB,
+    massModel: input.massModel, orbitalAngularMomentum: kin.orbitalAngularMomentum, orbitalAngularRate: kin.orbitalAngularRate, orbitNormal: kin.orbitNormal,
+    direction: fc.direction, separation: fc.separation - depth, neckArea: nk.neck.area, spinA: input.spinA, spinB: input.spinB,
+    fullShapeForce: depth === 0 ? fLine : undefined, observedSpinPeriod: input.observedSpinPeriod,
+  })
+  check(); report(0.7, 'neck sweep')
+  const steps = input.sweepSteps ?? 4
+  const sweep = steps > 0 ? await neckSweep(neckInput, steps, smaller / 4, { tilt: false, signal: opts.signal }) : null
+  check()
+  let spread: SpreadSummary | null = null
+  if (input.spread) {
+    report(0.85, 'spread')
+    const ctx = createSpreadContext({
+      meshA: input.meshA, meshB: input.meshB, orientationB: fc.poseB.quaternion, direction: fc.direction, orbit: input.orbit, orbitNormal: input.orbitNormal,
+      overlapDepth: depth, massModel: input.massModel, spinA: input.spinA, spinB: input.spinB, spec: input.spread, cache,
+    })
+    spread = (await runSpread(ctx, opts.signal, n => report(0.85 + 0.15 * n / input.spread!.samples, 'spread'))).summary
+  }
+  report(1, 'done')
+  const { contact: _c, ...k } = kin
+  return {
+    contact: {
+      separation: fc.separation,
+      point: fc.point,
+      normalA: fc.normalA,
+      normalB: fc.normalB,
+      poseB: fc.poseB,
+      speed: k.speed,
+      escapeSpeed: k.escapeSpeed,
+      sphereEquivalentEscapeSpeed: k.sphereEquivalentEscapeSpeed,
+      speedRatio: k.speedRatio,
+      radialSpeed: k.radialSpeed,
+      tangentialSpeed: k.tangentialSpeed,
+      normalSpeed: k.normalSpeed,
+      impactAngleFromNormalDeg: k.impactAngleFromNormalDeg,
+      impactAngleFromTangentDeg: k.impactAngleFromTangentDeg,
+      orbitalAngularMomentum: k.orbitalAngularMomentum,
+      massRatio: k.massRatio,
+      speedFullShape: fs.speedFullShape,
+      escapeSpeedFullShape: fs.escapeSpeedFullShape,
+      mutualPotential: { W: mp.W, order: mp.order, convergence: mp.convergence, facesA: mp.facesA, facesB: mp.facesB, simplified: mp.simplified },
+    },
+    neck: nk.neck,
+    merged,
+    sweep,
+    screen,
+    spread,
+    massModel: input.massModel,
+    algorithmVersion: CONTACT_ALGORITHM_VERSION,
+  }
+}
+

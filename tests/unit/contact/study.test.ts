@@ -1,0 +1,87 @@
+import { describe, expect, it } from 'vitest'
+import { icosphere, perturbedEllipsoid } from '../../../shared/geometry/generate'
+import { runContactStudy } from '../../../shared/geometry/contactStudy'
+import { createSpreadContext, runSpreadSample, sampleCone, summariseSpread } from '../../../shared/geometry/spread'
+import { quatFromAxisAngle } from '../../../shared/geometry/quat'
+import { createRng } from '../../../shared/geometry/rng'
+import type { SpreadSpec } from '../../../shared/geometry/spread'
+
+const G = 6.67430e-11
+
+describe('runContactStudy', () => {
+  it('two spheres head-on from a parabolic orbit: speeds, full-shape figures, progress, field names', async () => {
+    const R1 = 1000, R2 = 600
+    const stages: string[] = []
+    const r = await runContactStudy({
+      meshA: icosphere(3, R1), meshB: icosphere(3, R2), densityA: 1000, densityB: 1000, direction: [1, 0, 0],
+      orbit: { kind: 'parabolic' }, orbitNormal: [0, 0, 1], overlapDepth: 60, massModel: 'conserve-mass', sweepSteps: 2,
+      screen: { semiMajorAxis: 5000, eccentricity: 0.1, inclinationDeg: 70, heliocentricSemiMajorAxis: 3 * 149_597_870_700 },
+    }, { onProgress: (_f, s) => stages.push(s) })
+    if (!('speedFullShape' in r.contact)) throw new Error('expected contact')
+    const c = r.contact
+    // Vis-viva at d = R1 + R2 − sagitta (parabolic: v = v_esc = √(2GM/d), SCIENCE.md §5).
+    const M = 1000 * (4 / 3) * Math.PI * (R1 ** 3 + R2 ** 3)
+    expect(c.speed / Math.sqrt(2 * G * M / c.separation)).toBeCloseTo(1, 2) // mesh masses ~1e-2 below the sphere's
+    expect(c.speed).toBeCloseTo(c.escapeSpeed, 12)
+    // Two (polyhedral) spheres: the full-shape mutual potential ≈ GMμ/d (Newton's shell theorem), so
+    // the full-shape escape speed is within a percent of the point-mass one at this resolution.
+    expect(Math.abs(c.escapeSpeedFullShape / c.escapeSpeed - 1)).toBeLessThan(1e-2)
+    expect(r.neck!.equivalentRadius).toBeGreaterThan(0)
+    expect(r.merged!.massModel).toBe('conserve-mass')
+    expect(r.sweep).toHaveLength(3)
+    expect(r.screen!.kind).toBe('screen')
+    expect(stages[0]).toBe('mass properties')
+    expect(stages.at(-1)).toBe('done')
+    for (const k of ['separation', 'point', 'normalA', 'normalB', 'poseB', 'speed', 'escapeSpeed', 'sphereEquivalentEscapeSpeed', 'speedRatio', 'radialSpeed', 'tangentialSpeed', 'normalSpeed', 'impactAngleFromNormalDeg', 'impactAngleFromTangentDeg', 'orbitalAngularMomentum', 'massRatio', 'speedFullShape', 'escapeSpeedFullShape'])
+      expect(c).toHaveProperty(k)
+    for (const k of ['massModel', 'volume', 'mass', 'centroid', 'principalMoments', 'principalAxes', 'J2', 'C22', 'referenceRadius', 'spinPeriod', 'spinAxis', 'relaxedSpinPeriod', 'tumbleAngleDeg', 'breakupSpinPeriod', 'separationSpinPeriod', 'neckStress'])
+      expect(r.merged).toHaveProperty(k)
+  }, 60_000)
+
+  it('stops with ABORTED when the signal fires', async () => {
+    const ac = new AbortController()
+    const p = runContactStudy({ meshA: icosphere(2, 1), meshB: icosphere(2, 1), densityA: 1000, densityB: 1000, direction: [1, 0, 0], orbit: { kind: 'parabolic' }, massModel: 'keep-density' },
+      { onProgress: (_f, s) => { if (s === 'kinematics') ac.abort() }, signal: ac.signal })
+    await expect(p).rejects.toMatchObject({ code: 'ABORTED' })
+  })
+
+  it('no-contact result when the pericentre lies beyond d', async () => {
+    const r = await runContactStudy({ meshA: icosphere(2, 1), meshB: icosphere(2, 1), densityA: 1000, densityB: 1000, direction: [1, 0, 0], orbit: { kind: 'bound', semiMajorAxis: 10, eccentricity: 0.1 }, massModel: 'keep-density' })
+    expect(r.contact).toMatchObject({ contact: false })
+    expect(r.neck).toBeNull()
+  })
+})
+
+describe('spread', () => {
+  const meshA = perturbedEllipsoid(1200, 900, 800, 2, 1, 0.1), meshB = perturbedEllipsoid(700, 600, 500, 2, 2, 0.1)
+  const mk = (spec: SpreadSpec) => createSpreadContext({ meshA, meshB, orientationB: quatFromAxisAngle([0, 1, 0], 0.4), direction: [1, 0.1, 0], orbit: { kind: 'bound', semiMajorAxis: 5000, eccentricity: 0.8 }, orbitNormal: [0, 0, 1], overlapDepth: 0, massModel: 'conserve-mass', spec })
+  it('density scaling laws: v ∝ √ρ, P ∝ ρ^−½, J2 independent of ρ (homogeneous bodies, common practice, no source)', async () => {
+    const fixed = (rho: number): SpreadSpec => ({ seed: 1, samples: 1, densityA: { kind: 'fixed', value: rho }, densityB: { kind: 'fixed', value: rho }, coneHalfAngleDeg: 0, scale: { kind: 'fixed', value: 1 } })
+    const a = await runSpreadSample(mk(fixed(1000)), 0)
+    const b = await runSpreadSample(mk(fixed(4000)), 0)
+    expect(b.speed! / a.speed!).toBeCloseTo(2, 10)
+    expect(b.escapeSpeed! / a.escapeSpeed!).toBeCloseTo(2, 10)
+    expect(b.spinPeriod! / a.spinPeriod!).toBeCloseTo(0.5, 10)
+    expect(b.mergedJ2! / a.mergedJ2!).toBeCloseTo(1, 10)
+  })
+  it('is reproducible per sample index and summarises', async () => {
+    const spec: SpreadSpec = { seed: 42, samples: 4, densityA: { kind: 'normal', mean: 1500, std: 300 }, densityB: { kind: 'uniform', min: 800, max: 2000 }, coneHalfAngleDeg: 20, scale: { kind: 'uniform', min: 0.9, max: 1.1 } }
+    const ctx = mk(spec)
+    const s = [] as Awaited<ReturnType<typeof runSpreadSample>>[]
+    for (let i = 0; i < 4; i++) s.push(await runSpreadSample(ctx, i))
+    const again = await runSpreadSample(mk(spec), 2)
+    expect(again).toEqual(s[2])
+    const sum = summariseSpread(spec, s)
+    expect(sum.speed!.n).toBe(4)
+    expect(sum.speed!.min).toBeLessThanOrEqual(sum.speed!.median)
+    expect(sum.speed!.median).toBeLessThanOrEqual(sum.speed!.max)
+  })
+  it('cone sampling is uniform in solid angle: mean cos θ = (1 + cos α)/2', () => {
+    // Uniform on a spherical cap: cos θ is uniform on [cos α, 1] (Archimedes' hat-box theorem).
+    const rng = createRng(7)
+    let sum = 0
+    const n = 20000
+    for (let i = 0; i < n; i++) sum += sampleCone([0, 0, 1], 30, rng)[2]
+    expect(sum / n).toBeCloseTo((1 + Math.cos(Math.PI / 6)) / 2, 2)
+  })
+})
