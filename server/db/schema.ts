@@ -167,3 +167,124 @@ export const studies = sqliteTable('studies', {
 export type Lobe = typeof lobes.$inferSelect
 export type Study = typeof studies.$inferSelect
 export type Job = typeof jobs.$inferSelect
+
+// ─── Object records ──────────────────────────────────────────────────────────────────────────────
+// Shared per-object records, the derived values attached to them (frozen snapshots with provenance),
+// their review, comments, follows and mail preferences. Sized for 10 000 records and 100 000
+// attachments: every list, filter and join below has an index.
+
+/** One record per object, with the designation and name chosen by the team. */
+export const objects = sqliteTable('objects', {
+  id: integer('id').primaryKey({ autoIncrement: true }),
+  designation: text('designation').notNull(),
+  name: text('name').notNull(),
+  population: text('population').$type<'kuiper-belt' | 'jupiter-family-comet' | 'near-earth' | 'main-belt' | 'other'>().notNull(),
+  notes: text('notes').notNull().default(''),
+  /** Heliocentric orbit: semi-major axis in au, eccentricity, inclination in degrees (all or none). */
+  orbitAAu: real('orbit_a_au'),
+  orbitE: real('orbit_e'),
+  orbitIDeg: real('orbit_i_deg'),
+  /** Sorted, lower-case; `object_tags` holds the same tags for filtering. */
+  tags: text('tags', { mode: 'json' }).$type<string[]>().notNull().default(sql`'[]'`),
+  createdBy: integer('created_by').notNull().references(() => users.id),
+  createdAt: createdAt(),
+  updatedAt: integer('updated_at', { mode: 'timestamp_ms' }).notNull().default(sql`(unixepoch('subsec') * 1000)`),
+}, t => [
+  uniqueIndex('objects_designation_unique').on(sql`${t.designation} collate nocase`),
+  index('objects_name_idx').on(sql`${t.name} collate nocase`),
+  index('objects_population_idx').on(t.population, sql`${t.designation} collate nocase`),
+  index('objects_created_idx').on(t.createdAt),
+  index('objects_updated_idx').on(t.updatedAt),
+])
+
+export const objectTags = sqliteTable('object_tags', {
+  objectId: integer('object_id').notNull().references(() => objects.id, { onDelete: 'cascade' }),
+  tag: text('tag').notNull(),
+}, t => [uniqueIndex('object_tags_unique').on(t.objectId, t.tag), index('object_tags_tag_idx').on(t.tag, t.objectId)])
+
+/** Lobes and studies linked to a record: by hand (`manual`) or because a value was attached from them. */
+export const objectLinks = sqliteTable('object_links', {
+  id: integer('id').primaryKey({ autoIncrement: true }),
+  objectId: integer('object_id').notNull().references(() => objects.id, { onDelete: 'cascade' }),
+  lobeId: integer('lobe_id').references(() => lobes.id),
+  studyId: integer('study_id').references(() => studies.id),
+  via: text('via').$type<'manual' | 'attachment'>().notNull(),
+  linkedBy: integer('linked_by').notNull().references(() => users.id),
+  createdAt: createdAt(),
+}, t => [
+  uniqueIndex('object_links_lobe_unique').on(t.objectId, t.lobeId).where(sql`${t.lobeId} is not null`),
+  uniqueIndex('object_links_study_unique').on(t.objectId, t.studyId).where(sql`${t.studyId} is not null`),
+  index('object_links_lobe_idx').on(t.lobeId),
+  index('object_links_study_idx').on(t.studyId),
+])
+
+export type AttachmentStateDb = 'proposed' | 'accepted' | 'rejected' | 'superseded'
+
+/**
+ * One derived value attached to a record: a frozen snapshot (value as a JSON number or array of
+ * numbers — float64, never rounded), its unit, spread, subject, reference radius and provenance.
+ * Values are never deleted: an accepted value replaced by a newer one becomes `superseded`.
+ */
+export const attachments = sqliteTable('attachments', {
+  id: integer('id').primaryKey({ autoIncrement: true }),
+  objectId: integer('object_id').notNull().references(() => objects.id),
+  quantityKey: text('quantity_key').notNull(),
+  subject: text('subject').$type<'lobe-a' | 'lobe-b' | 'whole-body' | 'merged-body'>().notNull(),
+  value: text('value', { mode: 'json' }).$type<number | number[]>().notNull(),
+  unit: text('unit').notNull(),
+  spread: text('spread', { mode: 'json' }).$type<Record<string, number | string> | null>(),
+  /** m; null for quantities without one. */
+  referenceRadius: real('reference_radius'),
+  /** quantity|subject|reference radius: accepted values of one group supersede each other. */
+  supersedeGroup: text('supersede_group').notNull(),
+  lobeId: integer('lobe_id').references(() => lobes.id),
+  studyId: integer('study_id').references(() => studies.id),
+  provenance: text('provenance', { mode: 'json' }).$type<Record<string, unknown>>().notNull(),
+  note: text('note').notNull().default(''),
+  state: text('state').$type<AttachmentStateDb>().notNull().default('proposed'),
+  proposedBy: integer('proposed_by').notNull().references(() => users.id),
+  proposedAt: integer('proposed_at', { mode: 'timestamp_ms' }).notNull().default(sql`(unixepoch('subsec') * 1000)`),
+  reviewedBy: integer('reviewed_by').references(() => users.id),
+  reviewedAt: integer('reviewed_at', { mode: 'timestamp_ms' }),
+  reviewComment: text('review_comment'),
+  supersededBy: integer('superseded_by'),
+  supersededAt: integer('superseded_at', { mode: 'timestamp_ms' }),
+}, t => [
+  index('attachments_object_state_idx').on(t.objectId, t.state),
+  index('attachments_object_group_idx').on(t.objectId, t.supersedeGroup, t.state),
+  // At most one current (accepted) value per record and group, enforced by the database.
+  uniqueIndex('attachments_current_unique').on(t.objectId, t.supersedeGroup).where(sql`${t.state} = 'accepted'`),
+  index('attachments_state_idx').on(t.state, t.proposedAt),
+  index('attachments_lobe_idx').on(t.lobeId),
+  index('attachments_study_idx').on(t.studyId),
+  index('attachments_proposer_idx').on(t.proposedBy),
+])
+
+/** Comment thread per attachment; review decisions appear here too (kind 'decision'). */
+export const attachmentComments = sqliteTable('attachment_comments', {
+  id: integer('id').primaryKey({ autoIncrement: true }),
+  attachmentId: integer('attachment_id').notNull().references(() => attachments.id),
+  authorId: integer('author_id').notNull().references(() => users.id),
+  kind: text('kind').$type<'comment' | 'decision'>().notNull().default('comment'),
+  body: text('body').notNull(),
+  createdAt: createdAt(),
+}, t => [index('attachment_comments_attachment_idx').on(t.attachmentId, t.id)])
+
+export const objectFollows = sqliteTable('object_follows', {
+  objectId: integer('object_id').notNull().references(() => objects.id, { onDelete: 'cascade' }),
+  userId: integer('user_id').notNull().references(() => users.id),
+  createdAt: createdAt(),
+}, t => [uniqueIndex('object_follows_unique').on(t.objectId, t.userId), index('object_follows_user_idx').on(t.userId)])
+
+/** Which record mails a member gets; no row = all on. */
+export const mailPreferences = sqliteTable('mail_preferences', {
+  userId: integer('user_id').primaryKey().references(() => users.id),
+  proposals: integer('proposals', { mode: 'boolean' }).notNull().default(true),
+  decisions: integer('decisions', { mode: 'boolean' }).notNull().default(true),
+  comments: integer('comments', { mode: 'boolean' }).notNull().default(true),
+  updatedAt: integer('updated_at', { mode: 'timestamp_ms' }).notNull().default(sql`(unixepoch('subsec') * 1000)`),
+})
+
+export type ObjectRecord = typeof objects.$inferSelect
+export type Attachment = typeof attachments.$inferSelect
+export type AttachmentComment = typeof attachmentComments.$inferSelect

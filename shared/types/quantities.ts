@@ -1,0 +1,195 @@
+/**
+ * The catalogue of quantities that can be attached to an object record: where each is read from a
+ * lobe row (`properties`, the mass properties at the lobe's density, SI; `surface`, the surface-field
+ * summary) or a study row (`result`), its unit, and whether it only means something together with a
+ * reference radius (gravity coefficients C_lm ∝ R^−l).
+ *
+ * Pure TypeScript: used by the attach dialog, the handlers and the unit tests.
+ */
+
+export const SUBJECTS = ['lobe-a', 'lobe-b', 'whole-body', 'merged-body'] as const
+export type Subject = (typeof SUBJECTS)[number]
+export const SUBJECT_LABELS: Record<Subject, string> = {
+  'lobe-a': 'lobe A',
+  'lobe-b': 'lobe B',
+  'whole-body': 'whole body',
+  'merged-body': 'merged body',
+}
+
+export type QuantitySource = 'lobe' | 'study'
+/** A scalar, or a fixed-length vector such as principal moments [A, B, C]. */
+export type QuantityValue = number | number[]
+
+export interface QuantityDef {
+  /** Stable key stored with every attachment; never renamed. */
+  key: string
+  source: QuantitySource
+  label: string
+  /** SI unit as printed ('1' = dimensionless). */
+  unit: string
+  /** Path inside the lobe row (`properties.…`, `surface.…`) or the study `result`. */
+  path: string[]
+  /** 'vector' quantities carry `components` labels. */
+  shape: 'scalar' | 'vector'
+  components?: string[]
+  /** Path to the reference radius (m) that goes with the value, same root as `path`. */
+  referenceRadiusPath?: string[]
+  /** Study quantities describe a fixed subject; lobe quantities take the subject chosen when attaching. */
+  subject?: Subject
+  /**
+   * For a `{ min, max, mean }` summary (surface fields): the mean is the value and [min, max] is kept
+   * as its spread, labelled as a range over the surface, not an uncertainty.
+   */
+  summary?: 'mean-with-range'
+  note?: string
+}
+
+const lobe = (key: string, label: string, unit: string, extra: Partial<QuantityDef> = {}): QuantityDef =>
+  ({ key, source: 'lobe', label, unit, path: ['properties', key], shape: 'scalar', ...extra })
+const study = (key: string, label: string, unit: string, subject: Subject, extra: Partial<QuantityDef> = {}): QuantityDef =>
+  ({ key, source: 'study', label, unit, path: key.split('.'), shape: 'scalar', subject, ...extra })
+
+const ABC = ['A', 'B', 'C']
+const SEMI = ['a', 'b', 'c']
+
+export const QUANTITIES: readonly QuantityDef[] = [
+  // Lobe mass properties (at the lobe's stated density, homogeneous interior).
+  lobe('volume', 'Volume', 'm³'),
+  lobe('mass', 'Mass', 'kg', { note: 'scales with the assumed bulk density' }),
+  lobe('density', 'Bulk density (assumed)', 'kg m⁻³', { note: 'an input of the lobe, not a derived value' }),
+  lobe('surfaceArea', 'Surface area', 'm²'),
+  lobe('equivalentRadius', 'Volume-equivalent radius', 'm'),
+  lobe('maxRadius', 'Largest centroid-to-vertex distance', 'm'),
+  lobe('principalMoments', 'Principal moments of inertia', 'kg m²', { shape: 'vector', components: ABC }),
+  lobe('deeveSemiAxes', 'DEEVE semi-axes', 'm', { shape: 'vector', components: SEMI }),
+  lobe('ellipsoidSemiAxes', 'Moment-equivalent ellipsoid semi-axes', 'm', { shape: 'vector', components: SEMI }),
+  lobe('J2', 'J2 (unnormalised, principal frame)', '1', { referenceRadiusPath: ['properties', 'referenceRadius'] }),
+  lobe('C22', 'C22 (unnormalised, principal frame)', '1', { referenceRadiusPath: ['properties', 'referenceRadius'] }),
+  lobe('C20Normalized', 'C̄20 (4π-normalised)', '1', { referenceRadiusPath: ['properties', 'referenceRadius'] }),
+  lobe('C22Normalized', 'C̄22 (4π-normalised)', '1', { referenceRadiusPath: ['properties', 'referenceRadius'] }),
+  lobe('escapeSpeedPointMass', 'Escape speed, point-mass estimate', 'm s⁻¹', { note: 'ignores shape and spin' }),
+  lobe('escapeSpeedSurface', 'Surface escape speed (mean over the surface)', 'm s⁻¹', { path: ['surface', 'escapeSpeedSurface'], summary: 'mean-with-range' }),
+  lobe('surfaceGravity', 'Surface gravity (mean over the surface)', 'm s⁻²', { path: ['surface', 'surfaceGravity'], summary: 'mean-with-range' }),
+  lobe('slopeDeg', 'Surface slope (mean over the surface)', 'deg', { path: ['surface', 'slopeDeg'], summary: 'mean-with-range' }),
+
+  // Contact study: kinematics of the join (the two-lobe system).
+  study('contact.speed', 'Contact speed', 'm s⁻¹', 'whole-body'),
+  study('contact.escapeSpeed', 'Mutual escape speed at contact', 'm s⁻¹', 'whole-body'),
+  study('contact.speedRatio', 'Contact speed / mutual escape speed', '1', 'whole-body'),
+  study('contact.impactAngleFromNormalDeg', 'Impact angle from the contact normal', 'deg', 'whole-body'),
+  study('contact.impactAngleFromTangentDeg', 'Impact angle from the tangent plane', 'deg', 'whole-body'),
+  study('contact.normalSpeed', 'Speed along the contact normal', 'm s⁻¹', 'whole-body'),
+  study('contact.massRatio', 'Mass ratio (smaller / larger)', '1', 'whole-body'),
+  study('neck.equivalentRadius', 'Neck equivalent radius', 'm', 'whole-body'),
+  study('neck.area', 'Neck section area', 'm²', 'whole-body'),
+  study('neck.overlapVolume', 'Overlap volume', 'm³', 'whole-body'),
+  // Merged body.
+  study('merged.mass', 'Merged mass', 'kg', 'merged-body'),
+  study('merged.volume', 'Merged volume', 'm³', 'merged-body'),
+  study('merged.density', 'Merged bulk density', 'kg m⁻³', 'merged-body'),
+  study('merged.principalMoments', 'Merged principal moments of inertia', 'kg m²', 'merged-body', { shape: 'vector', components: ABC }),
+  study('merged.J2', 'Merged J2 (unnormalised)', '1', 'merged-body', { referenceRadiusPath: ['merged', 'referenceRadius'] }),
+  study('merged.C22', 'Merged C22 (unnormalised)', '1', 'merged-body', { referenceRadiusPath: ['merged', 'referenceRadius'] }),
+  study('merged.spinPeriod', 'Inherited spin period', 's', 'merged-body'),
+  study('merged.relaxedSpinPeriod', 'Spin period after relaxing to the largest-moment axis', 's', 'merged-body'),
+  study('merged.breakupSpinPeriod', 'Breakup spin period (strengthless sphere)', 's', 'merged-body'),
+  study('merged.tumbleAngleDeg', 'Tumble angle', 'deg', 'merged-body'),
+  study('merged.neckStress', 'Mean neck stress (order of magnitude)', 'Pa', 'merged-body'),
+]
+
+const BY_KEY = new Map(QUANTITIES.map(q => [q.key, q]))
+
+export function quantityDef(key: string): QuantityDef | undefined {
+  return BY_KEY.get(key)
+}
+
+export function quantitiesFor(source: QuantitySource): QuantityDef[] {
+  return QUANTITIES.filter(q => q.source === source)
+}
+
+/** Numeric spread kept with a value: the finite numeric fields of the source (e.g. { min, max } or { sd }), and what they mean. */
+export interface Spread {
+  basis: 'surface-range' | 'study-spread'
+  [field: string]: number | string
+}
+
+export interface ReadQuantity {
+  key: string
+  value: QuantityValue
+  unit: string
+  spread: Spread | null
+  /** m, or null when the quantity carries none. */
+  referenceRadius: number | null
+}
+
+export class QuantityReadError extends Error {
+  constructor(readonly key: string, message: string) {
+    super(message)
+  }
+}
+
+function at(root: unknown, path: string[]): unknown {
+  let v: unknown = root
+  for (const p of path) {
+    if (v === null || typeof v !== 'object') return undefined
+    v = (v as Record<string, unknown>)[p]
+  }
+  return v
+}
+
+const finite = (v: unknown): v is number => typeof v === 'number' && Number.isFinite(v)
+
+function numericFields(o: unknown): Record<string, number> | null {
+  if (!o || typeof o !== 'object' || Array.isArray(o)) return null
+  const out: Record<string, number> = {}
+  for (const [k, v] of Object.entries(o)) if (finite(v)) out[k] = v
+  return Object.keys(out).length ? out : null
+}
+
+/**
+ * Reads one catalogue quantity from its source, exactly as stored (no rounding).
+ * @param source a lobe row `{ properties, surface }` or a study `result`
+ * @throws QuantityReadError when the quantity is absent or not finite (e.g. no contact, surface job not done)
+ */
+export function readQuantity(def: QuantityDef, source: unknown): ReadQuantity {
+  const raw = at(source, def.path)
+  let value: QuantityValue
+  let spread: Spread | null = null
+  if (def.summary === 'mean-with-range') {
+    const s = numericFields(raw)
+    if (!s || !finite(s.mean)) throw new QuantityReadError(def.key, `${def.label} is not available (surface fields not computed yet)`)
+    value = s.mean
+    if (finite(s.min) && finite(s.max)) spread = { basis: 'surface-range', min: s.min, max: s.max }
+  }
+  else if (def.shape === 'vector') {
+    if (!Array.isArray(raw) || raw.length !== (def.components?.length ?? raw.length) || !raw.every(finite)) {
+      throw new QuantityReadError(def.key, `${def.label} is not available in this source`)
+    }
+    value = [...raw]
+  }
+  else {
+    if (!finite(raw)) throw new QuantityReadError(def.key, `${def.label} is not available in this source`)
+    value = raw
+  }
+  if (def.source === 'study') {
+    // A study's spread (e.g. over a density range) is keyed by the quantity: spread['merged.J2'] or spread.merged.J2.
+    const s = numericFields(at(source, ['spread', def.key])) ?? numericFields(at(source, ['spread', ...def.path]))
+    if (s) spread = { basis: 'study-spread', ...s }
+  }
+  let referenceRadius: number | null = null
+  if (def.referenceRadiusPath) {
+    const r = at(source, def.referenceRadiusPath)
+    if (!finite(r) || r <= 0) throw new QuantityReadError(def.key, `${def.label} has no reference radius in this source`)
+    referenceRadius = r
+  }
+  return { key: def.key, value, unit: def.unit, spread, referenceRadius }
+}
+
+/**
+ * The supersede group of an attachment: values of the same quantity for the same subject and the
+ * same reference radius replace each other when accepted. The radius is written with JavaScript's
+ * shortest round-trip form, so equal float64 radii give equal keys and different ones never collide.
+ */
+export function supersedeGroup(key: string, subject: Subject, referenceRadius: number | null): string {
+  return `${key}|${subject}|${referenceRadius === null ? '' : String(referenceRadius)}`
+}
