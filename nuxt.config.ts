@@ -4,7 +4,30 @@ import { templateCompilerOptions } from '@tresjs/core'
 import pkg from './package.json' with { type: 'json' }
 
 // The project root is the source directory (no app/ folder): pages/, components/, stores/ at the top.
+/** Worker-thread entries are bundled separately: Nitro's bundle has no file a Worker could start. */
+async function buildWorkers(outdir: string) {
+  const { build } = await import('esbuild')
+  await build({
+    entryPoints: { 'lobe-worker': resolve('server/workers/lobe-worker.ts') },
+    outdir,
+    outExtension: { '.js': '.mjs' },
+    bundle: true,
+    platform: 'node',
+    format: 'esm',
+    target: 'node20',
+    external: ['manifold-3d'],
+    banner: { js: "import { createRequire as __isthmusRequire } from 'node:module'; const require = __isthmusRequire(import.meta.url);" },
+    logLevel: 'warning',
+  })
+}
+
 export default defineNuxtConfig({
+  hooks: {
+    // `nuxt dev` starts workers from .nuxt/workers.
+    async ready(nuxt) {
+      if (nuxt.options.dev) await buildWorkers(resolve(nuxt.options.buildDir, 'workers'))
+    },
+  },
   modules: ['@pinia/nuxt', '@nuxtjs/tailwindcss', 'nuxt-auth-utils'],
   devtools: { enabled: false },
   app: {
@@ -30,7 +53,8 @@ export default defineNuxtConfig({
   compatibilityDate: '2026-11-01',
   nitro: {
     typescript: { tsConfig: { compilerOptions: { noUncheckedIndexedAccess: false } } },
-    externals: { external: ['manifold-3d'] },
+    // manifold-3d loads its .wasm next to its own file: keep it a real package in .output.
+    externals: { external: ['manifold-3d'], traceInclude: ['manifold.js', 'manifold.wasm'].map(f => resolve('node_modules/manifold-3d', f)) },
     experimental: { tasks: false },
     hooks: {
       // Migrations live beside the built server entry so the built app finds them (see STACK.md).
@@ -41,6 +65,7 @@ export default defineNuxtConfig({
           .filter(h => h.route && !h.middleware)
           .map(h => ({ route: h.route, method: (h.method ?? 'all').toUpperCase() }))
         await writeFile(resolve(nitro.options.output.serverDir, 'routes.json'), JSON.stringify(routes, null, 2))
+        await buildWorkers(resolve(nitro.options.output.serverDir, 'workers'))
       },
     },
   },

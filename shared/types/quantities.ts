@@ -7,9 +7,9 @@
  * Pure TypeScript: used by the attach dialog, the handlers and the unit tests.
  */
 
-export const SUBJECTS = ['lobe-a', 'lobe-b', 'whole-body', 'merged-body'] as const
-export type Subject = (typeof SUBJECTS)[number]
-export const SUBJECT_LABELS: Record<Subject, string> = {
+export const RECORD_SUBJECTS = ['lobe-a', 'lobe-b', 'whole-body', 'merged-body'] as const
+export type RecordSubject = (typeof RECORD_SUBJECTS)[number]
+export const RECORD_SUBJECT_LABELS: Record<RecordSubject, string> = {
   'lobe-a': 'lobe A',
   'lobe-b': 'lobe B',
   'whole-body': 'whole body',
@@ -35,7 +35,7 @@ export interface QuantityDef {
   /** Path to the reference radius (m) that goes with the value, same root as `path`. */
   referenceRadiusPath?: string[]
   /** Study quantities describe a fixed subject; lobe quantities take the subject chosen when attaching. */
-  subject?: Subject
+  subject?: RecordSubject
   /**
    * For a `{ min, max, mean }` summary (surface fields): the mean is the value and [min, max] is kept
    * as its spread, labelled as a range over the surface, not an uncertainty.
@@ -46,13 +46,13 @@ export interface QuantityDef {
 
 const lobe = (key: string, label: string, unit: string, extra: Partial<QuantityDef> = {}): QuantityDef =>
   ({ key, source: 'lobe', label, unit, path: ['properties', key], shape: 'scalar', ...extra })
-const study = (key: string, label: string, unit: string, subject: Subject, extra: Partial<QuantityDef> = {}): QuantityDef =>
+const study = (key: string, label: string, unit: string, subject: RecordSubject, extra: Partial<QuantityDef> = {}): QuantityDef =>
   ({ key, source: 'study', label, unit, path: key.split('.'), shape: 'scalar', subject, ...extra })
 
 const ABC = ['A', 'B', 'C']
 const SEMI = ['a', 'b', 'c']
 
-export const QUANTITIES: readonly QuantityDef[] = [
+export const RECORD_QUANTITIES: readonly QuantityDef[] = [
   // Lobe mass properties (at the lobe's stated density, homogeneous interior).
   lobe('volume', 'Volume', 'm³'),
   lobe('mass', 'Mass', 'kg', { note: 'scales with the assumed bulk density' }),
@@ -97,18 +97,18 @@ export const QUANTITIES: readonly QuantityDef[] = [
   study('merged.neckStress', 'Mean neck stress (order of magnitude)', 'Pa', 'merged-body'),
 ]
 
-const BY_KEY = new Map(QUANTITIES.map(q => [q.key, q]))
+const BY_KEY = new Map(RECORD_QUANTITIES.map(q => [q.key, q]))
 
 export function quantityDef(key: string): QuantityDef | undefined {
   return BY_KEY.get(key)
 }
 
 export function quantitiesFor(source: QuantitySource): QuantityDef[] {
-  return QUANTITIES.filter(q => q.source === source)
+  return RECORD_QUANTITIES.filter(q => q.source === source)
 }
 
-/** Numeric spread kept with a value: the finite numeric fields of the source (e.g. { min, max } or { sd }), and what they mean. */
-export interface Spread {
+/** Numeric spread kept with a value: the isFiniteNumber numeric fields of the source (e.g. { min, max } or { sd }), and what they mean. */
+export interface QuantitySpread {
   basis: 'surface-range' | 'study-spread'
   [field: string]: number | string
 }
@@ -117,7 +117,7 @@ export interface ReadQuantity {
   key: string
   value: QuantityValue
   unit: string
-  spread: Spread | null
+  spread: QuantitySpread | null
   /** m, or null when the quantity carries none. */
   referenceRadius: number | null
 }
@@ -128,7 +128,7 @@ export class QuantityReadError extends Error {
   }
 }
 
-function at(root: unknown, path: string[]): unknown {
+function quantityAt(root: unknown, path: string[]): unknown {
   let v: unknown = root
   for (const p of path) {
     if (v === null || typeof v !== 'object') return undefined
@@ -137,49 +137,49 @@ function at(root: unknown, path: string[]): unknown {
   return v
 }
 
-const finite = (v: unknown): v is number => typeof v === 'number' && Number.isFinite(v)
+const isFiniteNumber = (v: unknown): v is number => typeof v === 'number' && Number.isFinite(v)
 
-function numericFields(o: unknown): Record<string, number> | null {
+function numericFieldsOf(o: unknown): Record<string, number> | null {
   if (!o || typeof o !== 'object' || Array.isArray(o)) return null
   const out: Record<string, number> = {}
-  for (const [k, v] of Object.entries(o)) if (finite(v)) out[k] = v
+  for (const [k, v] of Object.entries(o)) if (isFiniteNumber(v)) out[k] = v
   return Object.keys(out).length ? out : null
 }
 
 /**
  * Reads one catalogue quantity from its source, exactly as stored (no rounding).
  * @param source a lobe row `{ properties, surface }` or a study `result`
- * @throws QuantityReadError when the quantity is absent or not finite (e.g. no contact, surface job not done)
+ * @throws QuantityReadError when the quantity is absent or not isFiniteNumber (e.g. no contact, surface job not done)
  */
 export function readQuantity(def: QuantityDef, source: unknown): ReadQuantity {
-  const raw = at(source, def.path)
+  const raw = quantityAt(source, def.path)
   let value: QuantityValue
-  let spread: Spread | null = null
+  let spread: QuantitySpread | null = null
   if (def.summary === 'mean-with-range') {
-    const s = numericFields(raw)
-    if (!s || !finite(s.mean)) throw new QuantityReadError(def.key, `${def.label} is not available (surface fields not computed yet)`)
+    const s = numericFieldsOf(raw)
+    if (!s || !isFiniteNumber(s.mean)) throw new QuantityReadError(def.key, `${def.label} is not available (surface fields not computed yet)`)
     value = s.mean
-    if (finite(s.min) && finite(s.max)) spread = { basis: 'surface-range', min: s.min, max: s.max }
+    if (isFiniteNumber(s.min) && isFiniteNumber(s.max)) spread = { basis: 'surface-range', min: s.min, max: s.max }
   }
   else if (def.shape === 'vector') {
-    if (!Array.isArray(raw) || raw.length !== (def.components?.length ?? raw.length) || !raw.every(finite)) {
+    if (!Array.isArray(raw) || raw.length !== (def.components?.length ?? raw.length) || !raw.every(isFiniteNumber)) {
       throw new QuantityReadError(def.key, `${def.label} is not available in this source`)
     }
     value = [...raw]
   }
   else {
-    if (!finite(raw)) throw new QuantityReadError(def.key, `${def.label} is not available in this source`)
+    if (!isFiniteNumber(raw)) throw new QuantityReadError(def.key, `${def.label} is not available in this source`)
     value = raw
   }
   if (def.source === 'study') {
     // A study's spread (e.g. over a density range) is keyed by the quantity: spread['merged.J2'] or spread.merged.J2.
-    const s = numericFields(at(source, ['spread', def.key])) ?? numericFields(at(source, ['spread', ...def.path]))
+    const s = numericFieldsOf(quantityAt(source, ['spread', def.key])) ?? numericFieldsOf(quantityAt(source, ['spread', ...def.path]))
     if (s) spread = { basis: 'study-spread', ...s }
   }
   let referenceRadius: number | null = null
   if (def.referenceRadiusPath) {
-    const r = at(source, def.referenceRadiusPath)
-    if (!finite(r) || r <= 0) throw new QuantityReadError(def.key, `${def.label} has no reference radius in this source`)
+    const r = quantityAt(source, def.referenceRadiusPath)
+    if (!isFiniteNumber(r) || r <= 0) throw new QuantityReadError(def.key, `${def.label} has no reference radius in this source`)
     referenceRadius = r
   }
   return { key: def.key, value, unit: def.unit, spread, referenceRadius }
@@ -190,6 +190,6 @@ export function readQuantity(def: QuantityDef, source: unknown): ReadQuantity {
  * same reference radius replace each other when accepted. The radius is written with JavaScript's
  * shortest round-trip form, so equal float64 radii give equal keys and different ones never collide.
  */
-export function supersedeGroup(key: string, subject: Subject, referenceRadius: number | null): string {
+export function supersedeGroup(key: string, subject: RecordSubject, referenceRadius: number | null): string {
   return `${key}|${subject}|${referenceRadius === null ? '' : String(referenceRadius)}`
 }

@@ -1,5 +1,5 @@
 import { z } from 'zod'
-import { SUBJECTS, quantityDef } from './quantities'
+import { RECORD_SUBJECTS, quantityDef } from './quantities'
 
 /** One schema per form, used by the record pages and the handlers. */
 
@@ -17,29 +17,29 @@ export const ATTACHMENT_STATES = ['proposed', 'accepted', 'rejected', 'supersede
 export type AttachmentState = (typeof ATTACHMENT_STATES)[number]
 
 /** Heliocentric osculating elements: semi-major axis in au, eccentricity, inclination in degrees. */
-export const orbitSchema = z.object({
+export const heliocentricOrbitSchema = z.object({
   semiMajorAxisAu: z.number({ message: 'Give the semi-major axis in au' }).gt(0, 'Semi-major axis must be positive (au)').max(100_000, 'Semi-major axis must be at most 100 000 au'),
   eccentricity: z.number({ message: 'Give the eccentricity' }).min(0, 'Eccentricity must be at least 0').lt(1, 'Eccentricity must be below 1 (bound orbit)'),
   inclinationDeg: z.number({ message: 'Give the inclination in degrees' }).min(0, 'Inclination must be at least 0°').max(180, 'Inclination must be at most 180°'),
 })
-export type Orbit = z.infer<typeof orbitSchema>
+export type HeliocentricOrbit = z.infer<typeof heliocentricOrbitSchema>
 
-export const designationSchema = z.string().trim()
+export const recordDesignationSchema = z.string().trim()
   .min(1, 'Enter a designation').max(60, 'Use at most 60 characters')
   .regex(/^[\p{L}\p{N}][\p{L}\p{N} ()/'+._-]*$/u, 'Use letters, digits, spaces and ( ) / \' + . _ - only')
-export const tagSchema = z.string().trim().toLowerCase()
+export const recordTagSchema = z.string().trim().toLowerCase()
   .min(1, 'Tags cannot be empty').max(40, 'Tags have at most 40 characters')
   .regex(/^[\p{L}\p{N}][\p{L}\p{N} ._-]*$/u, 'Tags use letters, digits, spaces and . _ - only')
 
 const idList = z.array(z.number().int().positive()).max(200, 'At most 200 links')
 
 const objectFields = {
-  designation: designationSchema,
+  designation: recordDesignationSchema,
   name: z.string().trim().min(1, 'Enter a name').max(120, 'Use at most 120 characters'),
   population: z.enum(POPULATIONS, { message: 'Choose a population' }),
   notes: z.string().max(20_000, 'Notes have at most 20 000 characters'),
-  orbit: orbitSchema.nullable(),
-  tags: z.array(tagSchema).max(30, 'At most 30 tags').transform(t => [...new Set(t)].sort()),
+  orbit: heliocentricOrbitSchema.nullable(),
+  tags: z.array(recordTagSchema).max(30, 'At most 30 tags').transform(t => [...new Set(t)].sort()),
   lobes: idList,
   studies: idList,
 }
@@ -64,7 +64,7 @@ export const OBJECT_SORTS = ['designation', 'name', 'population', 'createdAt', '
 export const objectListQuerySchema = z.object({
   q: z.string().trim().max(120).optional(),
   population: z.enum(POPULATIONS).optional(),
-  tag: tagSchema.optional(),
+  tag: recordTagSchema.optional(),
   sort: z.enum(OBJECT_SORTS).default('designation'),
   order: z.enum(['asc', 'desc']).default('asc'),
   limit: z.coerce.number().int().min(1).max(200).default(25),
@@ -80,7 +80,7 @@ const quantityKeys = z.array(z.string().refine(k => !!quantityDef(k), { message:
 export const attachSchema = z.union([
   z.object({
     lobe: z.number().int().positive(),
-    subject: z.enum(SUBJECTS).exclude(['merged-body']).default('whole-body'),
+    subject: z.enum(RECORD_SUBJECTS).exclude(['merged-body']).default('whole-body'),
     quantities: quantityKeys,
     note: z.string().trim().max(2000).default(''),
   }).strict(),
@@ -97,24 +97,24 @@ export const attachPreviewQuerySchema = z.union([
   z.object({ study: z.coerce.number().int().positive() }).strict(),
 ], { message: 'Give ?lobe=<id> or ?study=<id>' })
 
-export const reviewSchema = z.object({
+export const attachmentReviewSchema = z.object({
   decision: z.enum(['accept', 'reject'], { message: 'Decide accept or reject' }),
   comment: z.string().trim().max(4000, 'Use at most 4000 characters').default(''),
 }).refine(v => v.decision === 'accept' || v.comment.length > 0, { message: 'Say why the value is rejected', path: ['comment'] })
-export type ReviewRequest = z.infer<typeof reviewSchema>
+export type AttachmentReviewRequest = z.infer<typeof attachmentReviewSchema>
 
-export const commentSchema = z.object({
+export const attachmentCommentSchema = z.object({
   body: z.string().trim().min(1, 'Write a comment').max(4000, 'Use at most 4000 characters'),
 })
 
-export const MAIL_KINDS = ['proposals', 'decisions', 'comments'] as const
-export type MailKind = (typeof MAIL_KINDS)[number]
-export const MAIL_KIND_LABELS: Record<MailKind, string> = {
+export const RECORD_MAIL_KINDS = ['proposals', 'decisions', 'comments'] as const
+export type RecordMailKind = (typeof RECORD_MAIL_KINDS)[number]
+export const RECORD_MAIL_KIND_LABELS: Record<RecordMailKind, string> = {
   proposals: 'New values proposed on records I follow (reviewers and admins)',
   decisions: 'Decisions on values I proposed',
   comments: 'Comments on values on records I follow',
 }
-export const mailPreferencesSchema = z.object({
+export const recordMailPreferencesSchema = z.object({
   proposals: z.boolean(),
   decisions: z.boolean(),
   comments: z.boolean(),

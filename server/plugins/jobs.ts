@@ -1,0 +1,5 @@
+// Background work interrupted by a stop is marked failed (and surface fields restarted) once the
+// database is ready.
+export default defineNitroPlugin(() => {
+  onServerReady(recoverSurfaceJobs)
+})

@@ -1,0 +1,282 @@
+import type { H3Event } from 'h3'
+import { and, asc, desc, eq, inArray, ne, sql } from 'drizzle-orm'
+import type { Attachment, AttachmentComment, Lobe, ObjectRecord, Study } from '../db/schema'
+import { quantityDef, RECORD_SUBJECT_LABELS, type RecordSubject } from '../../shared/types/quantities'
+import type { RecordMailKind, HeliocentricOrbit } from '../../shared/types/records'
+
+/** Printed with every record, export and citation: the values are model estimates. */
+export const RECORD_CAUTIONS = [
+  'Every value is a model estimate under stated assumptions, never a measurement.',
+  'Lobe values assume a homogeneous interior at the stated bulk density and take the mesh as the exact surface; mesh resolution, patched holes, porosity and density contrasts change them.',
+  'Gravity coefficients (J2, C22, …) are meaningful only with their reference radius and normalisation.',
+  'Study values depend on the chosen approach (relative orbit, orientation) and the lobe recordDensities; a spread, where given, covers only the inputs that were varied.',
+]
+
+type Named = { id: number, name: string } | null
+
+export function objectView(o: ObjectRecord) {
+  const orbit: HeliocentricOrbit | null = o.orbitAAu !== null && o.orbitE !== null && o.orbitIDeg !== null
+    ? { semiMajorAxisAu: o.orbitAAu, eccentricity: o.orbitE, inclinationDeg: o.orbitIDeg }
+    : null
+  return {
+    id: o.id,
+    designation: o.designation,
+    name: o.name,
+    population: o.population,
+    notes: o.notes,
+    orbit,
+    tags: o.tags,
+    createdBy: o.createdBy,
+    createdAt: o.createdAt,
+    updatedAt: o.updatedAt,
+  }
+}
+
+export function attachmentView(a: Attachment, names: Map<number, string>) {
+  const def = quantityDef(a.quantityKey)
+  const named = (id: number | null): Named => (id === null ? null : { id, name: names.get(id) ?? `member #${id}` })
+  return {
+    id: a.id,
+    objectId: a.objectId,
+    quantityKey: a.quantityKey,
+    label: def?.label ?? a.quantityKey,
+    components: def?.components ?? null,
+    subject: a.subject,
+    subjectLabel: RECORD_SUBJECT_LABELS[a.subject as RecordSubject] ?? a.subject,
+    value: a.value,
+    unit: a.unit,
+    spread: a.spread,
+    /** m; null for quantities without one. */
+    referenceRadius: a.referenceRadius,
+    source: a.lobeId !== null ? { type: 'lobe' as const, id: a.lobeId } : { type: 'study' as const, id: a.studyId },
+    provenance: a.provenance,
+    note: a.note,
+    state: a.state,
+    proposedBy: named(a.proposedBy),
+    proposedAt: a.proposedAt,
+    reviewedBy: named(a.reviewedBy),
+    reviewedAt: a.reviewedAt,
+    reviewComment: a.reviewComment,
+    supersededBy: a.supersededBy,
+    supersededAt: a.supersededAt,
+  }
+}
+export type AttachmentView = ReturnType<typeof attachmentView>
+
+export function commentView(c: AttachmentComment, names: Map<number, string>) {
+  return { id: c.id, attachmentId: c.attachmentId, kind: c.kind, body: c.body, author: { id: c.authorId, name: names.get(c.authorId) ?? `member #${c.authorId}` }, createdAt: c.createdAt }
+}
+
+export async function memberNames(db: DB, ids: Iterable<number | null | undefined>): Promise<Map<number, string>> {
+  const list = [...new Set([...ids].filter((i): i is number => typeof i === 'number'))]
+  if (!list.length) return new Map()
+  const rows = await db.select({ id: schema.users.id, name: schema.users.name }).from(schema.users).where(inArray(schema.users.id, list))
+  return new Map(rows.map(r => [r.id, r.name]))
+}
+
+/** One timeline entry of a record's history, newest first. */
+export interface HistoryEvent {
+  at: Date
+  kind: 'proposed' | 'accepted' | 'rejected' | 'superseded' | 'comment'
+  attachmentId: number
+  quantityKey: string
+  subject: string
+  by: Named
+  detail?: string
+}
+
+function historyOf(items: AttachmentView[], comments: ReturnType<typeof commentView>[]): HistoryEvent[] {
+  const events: HistoryEvent[] = []
+  for (const a of items) {
+    const base = { attachmentId: a.id, quantityKey: a.quantityKey, subject: a.subject }
+    events.push({ ...base, at: a.proposedAt, kind: 'proposed', by: a.proposedBy })
+    if (a.reviewedAt) {
+      // A superseded value was accepted first.
+      const decided = a.state === 'rejected' ? 'rejected' : 'accepted'
+      events.push({ ...base, at: a.reviewedAt, kind: decided, by: a.reviewedBy, detail: a.reviewComment ?? undefined })
+    }
+    if (a.state === 'superseded' && a.supersededAt) {
+      events.push({ ...base, at: a.supersededAt, kind: 'superseded', by: null, detail: `by attachment #${a.supersededBy}` })
+    }
+  }
+  const byId = new Map(items.map(a => [a.id, a]))
+  for (const c of comments) {
+    if (c.kind !== 'comment') continue
+    const a = byId.get(c.attachmentId)!
+    events.push({ at: c.createdAt, kind: 'comment', attachmentId: c.attachmentId, quantityKey: a.quantityKey, subject: a.subject, by: c.author, detail: c.body })
+  }
+  const order = { proposed: 0, accepted: 1, rejected: 1, superseded: 2, comment: 3 }
+  return events.sort((x, y) => +y.at - +x.at || y.attachmentId - x.attachmentId || order[y.kind] - order[x.kind])
+}
+
+/**
+ * Everything the record page shows (and the JSON export carries): the record, its links, the
+ * current (accepted) values, every attachment ever made with its state, the comment threads and
+ * the history timeline.
+ * @returns undefined when the record does not exist
+ */
+export async function loadRecord(db: DB, id: number, viewerId?: number) {
+  const o = await db.select().from(schema.objects).where(eq(schema.objects.id, id)).get()
+  if (!o) return undefined
+  const [rows, comments, links, followers] = await Promise.all([
+    db.select().from(schema.attachments).where(eq(schema.attachments.objectId, id)).orderBy(desc(schema.attachments.id)),
+    db.select().from(schema.attachmentComments)
+      .innerJoin(schema.attachments, eq(schema.attachments.id, schema.attachmentComments.attachmentId))
+      .where(eq(schema.attachments.objectId, id)).orderBy(asc(schema.attachmentComments.id)),
+    db.select({
+      lobeId: schema.objectLinks.lobeId, studyId: schema.objectLinks.studyId, via: schema.objectLinks.via,
+      lobeName: schema.lobes.name, studyTitle: schema.studies.title,
+    }).from(schema.objectLinks)
+      .leftJoin(schema.lobes, eq(schema.lobes.id, schema.objectLinks.lobeId))
+      .leftJoin(schema.studies, eq(schema.studies.id, schema.objectLinks.studyId))
+      .where(eq(schema.objectLinks.objectId, id)).orderBy(asc(schema.objectLinks.id)),
+    db.select({ userId: schema.objectFollows.userId }).from(schema.objectFollows).where(eq(schema.objectFollows.objectId, id)),
+  ])
+  const names = await memberNames(db, [o.createdBy, ...rows.flatMap(a => [a.proposedBy, a.reviewedBy]), ...comments.map(c => c.attachment_comments.authorId)])
+  const items = rows.map(a => attachmentView(a, names))
+  const commentViews = comments.map(c => commentView(c.attachment_comments, names))
+  const thread: Record<number, ReturnType<typeof commentView>[]> = {}
+  for (const c of commentViews) (thread[c.attachmentId] ??= []).push(c)
+  const current = items.filter(a => a.state === 'accepted')
+    .sort((x, y) => x.quantityKey.localeCompare(y.quantityKey) || x.subject.localeCompare(y.subject) || (x.referenceRadius ?? 0) - (y.referenceRadius ?? 0))
+  return {
+    object: { ...objectView(o), createdByName: names.get(o.createdBy) ?? null },
+    links: {
+      lobes: links.filter(l => l.lobeId !== null).map(l => ({ id: l.lobeId!, name: l.lobeName, via: l.via })),
+      studies: links.filter(l => l.studyId !== null).map(l => ({ id: l.studyId!, title: l.studyTitle, via: l.via })),
+    },
+    currentValues: current,
+    attachments: items,
+    comments: thread,
+    history: historyOf(items, commentViews),
+    followerCount: followers.length,
+    following: viewerId !== undefined && followers.some(f => f.userId === viewerId),
+    cautions: RECORD_CAUTIONS,
+  }
+}
+export type RecordData = NonNullable<Awaited<ReturnType<typeof loadRecord>>>
+
+function lobeBlock(l: Lobe) {
+  return {
+    id: l.id,
+    name: l.name,
+    sourceFileName: l.sourceFileName,
+    sha256: l.sha256,
+    format: l.format,
+    fileUnits: l.units,
+    vertexCount: l.vertexCount,
+    faceCount: l.faceCount,
+    /** kg m⁻³ */
+    densityKgM3: l.density,
+    /** m; null → the volume-equivalent radius */
+    referenceRadiusM: l.referenceRadius,
+    spinPeriodHours: l.spinPeriodHours,
+    algorithmVersion: l.algorithmVersion,
+    createdAt: l.createdAt,
+  }
+}
+
+/** Frozen provenance of a value attached from a lobe. */
+export function lobeProvenance(l: Lobe, actor: { id: number, name: string }, at: Date) {
+  return {
+    source: 'lobe',
+    lobe: lobeBlock(l),
+    algorithmVersion: l.algorithmVersion,
+    softwareVersion: useRuntimeConfig().version,
+    assumptions: 'Homogeneous interior at the stated bulk density; the mesh is taken as the exact surface.',
+    attachedBy: { id: actor.id, name: actor.name },
+    attachedAt: at.toISOString(),
+  }
+}
+
+/** Frozen provenance of a value attached from a study: both meshes, recordDensities, the study inputs (approach) and versions. */
+export function studyProvenance(s: Study, a: Lobe | undefined, b: Lobe | undefined, actor: { id: number, name: string }, at: Date) {
+  return {
+    source: 'study',
+    study: { id: s.id, title: s.title, input: s.input, cacheKey: s.cacheKey, algorithmVersion: s.algorithmVersion, finishedAt: s.finishedAt },
+    lobeA: a ? lobeBlock(a) : { id: s.lobeAId },
+    lobeB: b ? lobeBlock(b) : { id: s.lobeBId },
+    algorithmVersion: s.algorithmVersion,
+    softwareVersion: useRuntimeConfig().version,
+    assumptions: 'Homogeneous lobes at the stated recordDensities, meshes taken as exact, the approach as given in the study inputs.',
+    attachedBy: { id: actor.id, name: actor.name },
+    attachedAt: at.toISOString(),
+  }
+}
+
+export function recordNotFound() {
+  return notFound('Object record')
+}
+
+export function recordConflict(message: string) {
+  return createError({ status: 409, statusText: 'Conflict', message })
+}
+
+/** Makes sure a record is linked to a lobe or study (idempotent). */
+export async function ensureLink(db: Pick<DB, 'insert'>, objectId: number, link: { lobeId?: number, studyId?: number }, via: 'manual' | 'attachment', userId: number) {
+  await db.insert(schema.objectLinks).values({ objectId, lobeId: link.lobeId ?? null, studyId: link.studyId ?? null, via, linkedBy: userId }).onConflictDoNothing()
+}
+
+/** Replaces the tag rows of a record (the JSON column holds the same list). */
+export async function writeTags(db: Pick<DB, 'insert' | 'delete'>, objectId: number, tags: string[]) {
+  await db.delete(schema.objectTags).where(eq(schema.objectTags.objectId, objectId))
+  if (tags.length) await db.insert(schema.objectTags).values(tags.map(tag => ({ objectId, tag })))
+}
+
+/** Replaces the manual links of a record; links made by attachments stay. Unknown ids answer 422. */
+export async function writeManualLinks(db: DB, objectId: number, userId: number, lobeIds: number[] | undefined, studyIds: number[] | undefined) {
+  if (lobeIds) {
+    const found = lobeIds.length ? await db.select({ id: schema.lobes.id }).from(schema.lobes).where(inArray(schema.lobes.id, lobeIds)) : []
+    const missing = lobeIds.filter(i => !found.some(f => f.id === i))
+    if (missing.length) throw unprocessable('Unknown lobe', missing.map(m => ({ path: `lobes.${lobeIds.indexOf(m)}`, message: `No lobe #${m}` })))
+    await db.delete(schema.objectLinks).where(and(eq(schema.objectLinks.objectId, objectId), eq(schema.objectLinks.via, 'manual'), sql`${schema.objectLinks.lobeId} is not null`))
+    for (const id of lobeIds) await ensureLink(db, objectId, { lobeId: id }, 'manual', userId)
+  }
+  if (studyIds) {
+    const found = studyIds.length ? await db.select({ id: schema.studies.id }).from(schema.studies).where(inArray(schema.studies.id, studyIds)) : []
+    const missing = studyIds.filter(i => !found.some(f => f.id === i))
+    if (missing.length) throw unprocessable('Unknown study', missing.map(m => ({ path: `studies.${studyIds.indexOf(m)}`, message: `No study #${m}` })))
+    await db.delete(schema.objectLinks).where(and(eq(schema.objectLinks.objectId, objectId), eq(schema.objectLinks.via, 'manual'), sql`${schema.objectLinks.studyId} is not null`))
+    for (const id of studyIds) await ensureLink(db, objectId, { studyId: id }, 'manual', userId)
+  }
+}
+
+/** A designation already in use (case-insensitive) answers 409. */
+export function isDesignationClash(error: unknown): boolean {
+  const e = error as { cause?: { message?: string, code?: string }, message?: string }
+  return /objects_designation_unique|UNIQUE constraint failed: objects\./i.test(`${e?.cause?.message ?? ''} ${e?.message ?? ''}`)
+}
+
+/**
+ * Members who want a record mail of `kind`: active, preference on (no row = on), optionally only
+ * followers of a record and only some roles, never the member who caused it.
+ */
+export async function mailRecipients(db: DB, opts: { kind: RecordMailKind, followersOf?: number, userIds?: number[], roles?: string[], exclude: number }) {
+  const u = schema.users
+  const p = schema.mailPreferences
+  const conditions = [eq(u.active, true), ne(u.id, opts.exclude), sql`coalesce(${p[opts.kind]}, 1) = 1`]
+  if (opts.roles) conditions.push(inArray(u.role, opts.roles as never[]))
+  if (opts.userIds) conditions.push(inArray(u.id, opts.userIds.length ? opts.userIds : [-1]))
+  if (opts.followersOf !== undefined) {
+    conditions.push(sql`exists (select 1 from ${schema.objectFollows} f where f.object_id = ${opts.followersOf} and f.user_id = ${u.id})`)
+  }
+  return db.select({ id: u.id, email: u.email, name: u.name }).from(u).leftJoin(p, eq(p.userId, u.id)).where(and(...conditions))
+}
+
+/**
+ * Sends record mails one by one. A failure is logged and audited and never undoes the change that
+ * caused the mail (the attachment or review is already committed).
+ */
+export async function sendRecordMails(event: H3Event, to: { id: number, email: string }[], mail: { subject: string, text: string }, context: { action: string, objectId: number, attachmentIds: number[] }) {
+  for (const r of to) {
+    try {
+      await sendMail({ to: r.email, subject: mail.subject, text: mail.text })
+    }
+    catch (error) {
+      const message = error instanceof Error ? error.message : String(error)
+      console.error(`[isthmus] record mail to member #${r.id} failed (${context.action}):`, message)
+      await audit(event, { actorId: null, action: 'record.mail-failed', subjectType: 'object', subjectId: context.objectId, detail: { to: r.id, about: context.action, attachments: context.attachmentIds, error: message.slice(0, 300) } })
+        .catch(e => console.error('[isthmus] could not audit a failed mail:', e))
+    }
+  }
+}

@@ -1,0 +1,148 @@
+/**
+ * Worker-thread entry for heavy mesh work, so the request thread never blocks. Messages:
+ * { id, task, payload } in; { id, progress } / { id, result } / { id, error } out.
+ * Built with esbuild into `<server>/workers/lobe-worker.mjs` (see nuxt.config.ts).
+ */
+import { readFile, writeFile, rename } from 'node:fs/promises'
+import { parentPort } from 'node:worker_threads'
+import { GeometryError, evaluationPoints, massProperties, preparePolyhedron, readMesh, summarise, surfaceEscapeSpeed, surfaceFieldChunk, validateMesh } from '../../shared/geometry'
+import type { PolyhedronModel, TriMesh, Vec3 } from '../../shared/geometry'
+import { decodeAnalysisMesh, encodeAnalysisMesh, encodeDisplayMesh } from '../../shared/utils/mesh-binary'
+import { extraTasks } from './extra-tasks'
+
+export interface AnalysePayload {
+  filePath: string
+  units: 'm' | 'km'
+  density: number
+  referenceRadius?: number
+  /** Where to write the validated mesh (metres, float64) and the display copy. */
+  analysisMeshPath: string
+  displayMeshPath: string
+  displayFaceBudget: number
+  maxFaces: number
+}
+
+export interface FieldPreparePayload { analysisMeshPath: string, maxPoints: number }
+export interface FieldChunkPayload {
+  analysisMeshPath: string
+  density: number
+  points: Float64Array
+  normals: Float64Array
+  omega: Vec3 | null
+}
+
+const port = parentPort!
+
+async function writeAtomic(path: string, bytes: Uint8Array) {
+  const tmp = `${path}.${process.pid}.${Math.random().toString(36).slice(2)}.tmp`
+  await writeFile(tmp, bytes)
+  await rename(tmp, path)
+}
+
+async function toDisplay(mesh: TriMesh, budget: number) {
+  const simplified = mesh.indices.length / 3 > budget ? (await evaluationPoints(mesh, budget)).mesh : mesh
+  const P = simplified.positions
+  const origin: Vec3 = [0, 0, 0]
+  const n = P.length / 3
+  for (let i = 0; i < n; i++) for (let d = 0; d < 3; d++) origin[d] += P[3 * i + d] / n
+  const f32 = new Float32Array(P.length)
+  for (let i = 0; i < P.length; i++) f32[i] = P[i] - origin[i % 3]
+  return { bytes: encodeDisplayMesh({ origin, positions: f32, indices: simplified.indices }), faces: simplified.indices.length / 3 }
+}
+
+async function analyse(p: AnalysePayload, progress: (f: number, stage: string) => void) {
+  progress(0.05, 'reading')
+  const bytes = new Uint8Array(await readFile(p.filePath))
+  const read = readMesh(bytes, { maxFaces: p.maxFaces })
+  if (p.units === 'km') {
+    const P = read.mesh.positions
+    for (let i = 0; i < P.length; i++) P[i] *= 1000
+  }
+  progress(0.35, 'validating')
+  const { mesh, report } = validateMesh(read.mesh)
+  progress(0.6, 'mass properties')
+  const properties = massProperties(mesh, { density: p.density, referenceRadius: p.referenceRadius })
+  progress(0.75, 'storing')
+  await writeAtomic(p.analysisMeshPath, encodeAnalysisMesh(mesh.positions, mesh.indices))
+  progress(0.85, 'display copy')
+  const display = await toDisplay(mesh, p.displayFaceBudget)
+  await writeAtomic(p.displayMeshPath, display.bytes)
+  const { faceOrigin: _faceOrigin, ...reportOut } = report
+  return {
+    format: read.format,
+    sourceFaceCount: read.sourceFaceCount,
+    triangulatedPolygons: read.triangulatedPolygons,
+    properties,
+    report: reportOut,
+    displayFaces: display.faces,
+  }
+}
+
+let cached: { path: string, mesh: TriMesh, model?: PolyhedronModel } | undefined
+async function loadMesh(path: string) {
+  if (cached?.path !== path) cached = { path, mesh: decodeAnalysisMesh(new Uint8Array(await readFile(path))) }
+  return cached
+}
+async function loadModel(path: string) {
+  const c = await loadMesh(path)
+  c.model ??= preparePolyhedron(c.mesh)
+  return c.model
+}
+
+async function fieldPrepare(p: FieldPreparePayload) {
+  const { mesh } = await loadMesh(p.analysisMeshPath)
+  const ev = await evaluationPoints(mesh, p.maxPoints)
+  return { positions: ev.mesh.positions, indices: ev.mesh.indices, points: ev.points, normals: ev.normals, areas: ev.areas, sameAsMesh: ev.mesh.indices.length === mesh.indices.length }
+}
+
+async function fieldChunk(p: FieldChunkPayload, progress: (f: number, stage: string) => void) {
+  const model = await loadModel(p.analysisMeshPath)
+  const n = p.points.length / 3
+  const out = { gravity: new Float64Array(n), slopeDeg: new Float64Array(n), potential: new Float64Array(n) }
+  const step = Math.max(1, Math.ceil(n / 20))
+  for (let s = 0; s < n; s += step) {
+    surfaceFieldChunk(model, p.density, p.points, p.normals, p.omega ? { omega: p.omega } : null, s, Math.min(n, s + step), out)
+    progress(Math.min(1, (s + step) / n), 'surface field')
+  }
+  const escape = surfaceEscapeSpeed(model, p.density, p.points, p.omega ? { omega: p.omega } : null)
+  return { ...out, escape: escape.nonRotating }
+}
+
+const tasks: Record<string, (payload: any, progress: (f: number, stage: string) => void) => Promise<unknown>> = {
+  'analyse': analyse,
+  'field-prepare': fieldPrepare,
+  'field-chunk': fieldChunk,
+  ...extraTasks,
+}
+
+/** Typed arrays in a result are transferred, not copied. */
+function transferables(value: unknown, out: ArrayBuffer[] = []): ArrayBuffer[] {
+  if (ArrayBuffer.isView(value)) {
+    if (value.buffer instanceof ArrayBuffer && !out.includes(value.buffer)) out.push(value.buffer)
+  }
+  else if (value && typeof value === 'object') {
+    for (const v of Object.values(value)) transferables(v, out)
+  }
+  return out
+}
+
+port.on('message', async (msg: { id: number, task: string, payload: unknown }) => {
+  const progress = (fraction: number, stage: string) => port.postMessage({ id: msg.id, progress: fraction, stage })
+  try {
+    const run = tasks[msg.task]
+    if (!run) throw new Error(`unknown worker task ${msg.task}`)
+    const result = await run(msg.payload, progress)
+    port.postMessage({ id: msg.id, result }, transferables(result))
+  }
+  catch (error) {
+    const e = error as Error
+    port.postMessage({
+      id: msg.id,
+      error: error instanceof GeometryError
+        ? { name: 'GeometryError', code: error.code, message: error.message, issues: error.issues }
+        : { name: e?.name ?? 'Error', message: e?.message ?? String(error), stack: e?.stack },
+    })
+  }
+})
+
+export { summarise }

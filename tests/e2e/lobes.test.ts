@@ -1,0 +1,140 @@
+import { readdirSync } from 'node:fs'
+import { join } from 'node:path'
+import { afterAll, beforeAll, describe, expect, it } from 'vitest'
+import { boxMesh, icosphere, writeObj, writePly } from '../../shared/geometry'
+import { Agent } from './support/http'
+import { startServer, type RunningServer } from './support/server'
+
+function upload(agent: Agent, bytes: Uint8Array, name: string, fields: Record<string, string>) {
+  const form = new FormData()
+  for (const [k, v] of Object.entries(fields)) form.set(k, v)
+  form.set('file', new Blob([bytes]), name)
+  return agent.post('/api/lobes', form)
+}
+
+async function waitForSurface(agent: Agent, id: number, timeoutMs = 60_000) {
+  const deadline = Date.now() + timeoutMs
+  for (;;) {
+    const lobe = (await agent.get(`/api/lobes/${id}`)).json
+    const job = lobe.properties.gravityJob
+    if (job?.status === 'done') return lobe
+    if (job?.status === 'failed') throw new Error(`surface job failed: ${job.error}`)
+    if (Date.now() > deadline) throw new Error(`surface job still ${job?.status} at ${job?.progress}`)
+    await new Promise(r => setTimeout(r, 200))
+  }
+}
+
+describe('lobe uploads through the API', () => {
+  let server: RunningServer
+  const as = {} as Record<'analyst' | 'viewer' | 'admin' | 'reviewer', Agent>
+  beforeAll(async () => {
+    server = await startServer({ ISTHMUS_DEMO: '1', ISTHMUS_MAX_UPLOAD_MB: '2', ISTHMUS_FIELD_POINTS: '400' })
+    for (const who of ['analyst', 'viewer', 'admin', 'reviewer'] as const) {
+      as[who] = new Agent(server.url)
+      await as[who].signIn(`${who}@example.org`, 'isthmus-demo')
+    }
+  })
+  afterAll(() => server?.dispose())
+
+  it('computes the box closed form for an uploaded OBJ in km and answers the documented fields', async () => {
+    // Box 2 × 1 × 0.5 km: V = 1 km³, I_x = M(Ly² + Lz²)/12 (textbook closed form).
+    const res = await upload(as.analyst, writeObj(boxMesh(2, 1, 0.5)), 'slab.obj', { density: '1500', units: 'km' })
+    expect(res.status, res.text).toBe(201)
+    const lobe = res.json
+    for (const k of ['id', 'name', 'sha256', 'format', 'units', 'vertexCount', 'faceCount', 'warnings', 'properties']) expect(lobe).toHaveProperty(k)
+    for (const k of ['density', 'volume', 'surfaceArea', 'mass', 'centroid', 'inertia', 'principalMoments', 'principalAxes', 'equivalentRadius', 'ellipsoidSemiAxes', 'deeveSemiAxes', 'referenceRadius', 'J2', 'C22', 'C20Normalized', 'C22Normalized', 'maxRadius', 'escapeSpeedPointMass', 'escapeSpeedSurface', 'surfaceGravity', 'gravityJob']) {
+      expect(lobe.properties).toHaveProperty(k)
+    }
+    expect(lobe.format).toBe('obj')
+    expect(lobe.name).toBe('slab')
+    const M = 1e9 * 1500
+    expect(lobe.properties.volume).toBeCloseTo(1e9, -1)
+    expect(lobe.properties.mass).toBeCloseTo(M, -4)
+    const [A, B, C] = lobe.properties.principalMoments
+    expect(A / (M * (1000 ** 2 + 500 ** 2) / 12)).toBeCloseTo(1, 10)
+    expect(B / (M * (2000 ** 2 + 500 ** 2) / 12)).toBeCloseTo(1, 10)
+    expect(C / (M * (2000 ** 2 + 1000 ** 2) / 12)).toBeCloseTo(1, 10)
+    expect(lobe.properties.surfaceGravity).toBeNull()
+    expect(['queued', 'running', 'done']).toContain(lobe.properties.gravityJob.status)
+    // The stored file is named by its hash and nothing is left in the temporary folder.
+    expect(readdirSync(join(server.dataDir, 'uploads', 'meshes'))).toContain(`${lobe.sha256}.obj`)
+    expect(readdirSync(join(server.dataDir, 'uploads', 'tmp'))).toEqual([])
+
+    const done = await waitForSurface(as.viewer, lobe.id)
+    expect(done.properties.surfaceGravity.min).toBeGreaterThan(0)
+    expect(done.properties.surfaceGravity.max).toBeGreaterThan(done.properties.surfaceGravity.min)
+    expect(done.properties.escapeSpeedSurface.mean).toBeGreaterThan(0)
+    const fields = await as.viewer.get(`/api/lobes/${lobe.id}/fields`)
+    expect(fields.status).toBe(200)
+    expect(fields.json.gravity.length).toBe(fields.json.indices.length / 3)
+  })
+
+  it('gives the same properties for PLY (binary) and OBJ of the same sphere, and scales with density without re-reading', async () => {
+    const mesh = icosphere(3, 1.2)
+    const obj = await upload(as.analyst, writeObj(mesh), 'ball.obj', { density: '800' })
+    const ply = await upload(as.analyst, writePly(mesh, 'binary_little_endian', { double: true }), 'ball.ply', { density: '800' })
+    expect(obj.status).toBe(201)
+    expect(ply.status).toBe(201)
+    expect(ply.json.format).toBe('ply')
+    expect(ply.json.properties.volume / obj.json.properties.volume).toBeCloseTo(1, 12)
+    expect(ply.json.properties.J2).toBeCloseTo(obj.json.properties.J2, 12)
+    const patched = await as.analyst.patch(`/api/lobes/${obj.json.id}`, { density: 3200 })
+    expect(patched.status).toBe(200)
+    expect(patched.json.properties.mass / obj.json.properties.mass).toBeCloseTo(4, 12)
+    expect(patched.json.properties.escapeSpeedPointMass / obj.json.properties.escapeSpeedPointMass).toBeCloseTo(2, 12)
+    expect(patched.json.properties.J2).toBe(obj.json.properties.J2)
+    // Another member's lobe: only the owner or an admin may change it.
+    expect((await as.reviewer.patch(`/api/lobes/${obj.json.id}`, { density: 1000 })).status).toBe(403)
+  })
+
+  it('rejects bad meshes with 422 naming the problem, oversize with 413, and stays up', async () => {
+    const open = boxMesh(1, 1, 1)
+    const holed = { positions: open.positions, indices: open.indices.slice(0, open.indices.length - 3) }
+    const cases: [Uint8Array, string, number, RegExp][] = [
+      [writeObj(holed), 'open.obj', 422, /open|boundary/i],
+      [new TextEncoder().encode(''), 'empty.obj', 422, /empty/i],
+      [new TextEncoder().encode('ply\nformat ascii 1.0\nelement vertex 4000000000\nproperty float x\nend_header\n'), 'absurd.ply', 422, /.+/],
+      [new Uint8Array(Array.from({ length: 4096 }, (_, i) => (i * 7919) % 256)), 'noise.ply', 422, /.+/],
+      [new Uint8Array(3 * 1024 * 1024), 'huge.obj', 413, /larger than the limit/],
+    ]
+    for (const [bytes, name, status, msg] of cases) {
+      const res = await upload(as.analyst, bytes, name, { density: '1000' })
+      expect(res.status, `${name}: ${res.text.slice(0, 200)}`).toBe(status)
+      expect(res.json?.message ?? res.text).toMatch(msg)
+      if (status === 422) expect(Array.isArray(res.json.data.issues)).toBe(true)
+    }
+    const badDensity = await upload(as.analyst, writeObj(boxMesh(1, 1, 1)), 'box.obj', { density: '0' })
+    expect(badDensity.status).toBe(422)
+    expect(badDensity.json.data.issues[0].path).toBe('density')
+    expect(readdirSync(join(server.dataDir, 'uploads', 'tmp'))).toEqual([])
+    expect((await as.viewer.get('/api/health')).status).toBe(200)
+  })
+
+  it('lets only analysts and admins upload (role checked before the body), and only the owner or an admin delete', async () => {
+    expect((await upload(as.viewer, writeObj(boxMesh(1, 1, 1)), 'v.obj', { density: '1000' })).status).toBe(403)
+    expect((await upload(new Agent(server.url), writeObj(boxMesh(1, 1, 1)), 'anon.obj', { density: '1000' })).status).toBe(401)
+    const mine = await upload(as.analyst, writeObj(boxMesh(1, 2, 3)), 'mine.obj', { density: '1000' })
+    expect(mine.status).toBe(201)
+    const list = await as.viewer.get('/api/lobes?sort=name&order=asc&limit=50')
+    expect(list.status).toBe(200)
+    expect(list.json.total).toBeGreaterThanOrEqual(1)
+    expect(list.json.items.map((i: { name: string }) => i.name)).toEqual([...list.json.items.map((i: { name: string }) => i.name)].sort((a, b) => a.localeCompare(b)))
+    expect((await as.reviewer.delete(`/api/lobes/${mine.json.id}`)).status).toBe(403)
+    expect((await as.viewer.delete(`/api/lobes/${mine.json.id}`)).status).toBe(403)
+    expect((await as.analyst.delete(`/api/lobes/${mine.json.id}`)).status).toBe(200)
+    expect((await as.viewer.get(`/api/lobes/${mine.json.id}`)).status).toBe(404)
+  })
+
+  it('exports JSON and CSV with full precision', async () => {
+    const res = await upload(as.analyst, writeObj(icosphere(2, 0.7)), 'pebble.obj', { density: '1234.5' })
+    const csv = await as.viewer.get(`/api/lobes/${res.json.id}/export.csv`)
+    expect(csv.status).toBe(200)
+    const volumeRow = csv.text.split('\r\n').find(l => l.startsWith('volume,'))!
+    expect(Number(volumeRow.split(',')[1])).toBe(res.json.properties.volume)
+    const json = await as.viewer.get(`/api/lobes/${res.json.id}/export.json`)
+    expect(json.json.properties.J2).toBe(res.json.properties.J2)
+    expect(json.json.provenance.sha256).toBe(res.json.sha256)
+    const mesh = await fetch(`${server.url}/api/lobes/${res.json.id}/mesh`, { headers: { cookie: '' } })
+    expect(mesh.status).toBe(401)
+  })
+})
