@@ -1,0 +1,109 @@
+/**
+ * Geometry core benchmark: `npx tsx bench/geometry.ts`.
+ * Generates a 1 310 720-face closed ellipsoid, writes it as binary PLY and OBJ to a temp dir, then
+ * times (each in a fresh child process, so peak RSS and cold-JIT times are the pipeline's own):
+ * read, validate, mass properties; then the polyhedral-gravity rate and the surface field of a
+ * 20 480-face lobe on 2 worker threads.
+ */
+import { spawnSync } from 'node:child_process'
+import { mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs'
+import { tmpdir } from 'node:os'
+import { join } from 'node:path'
+import { fileURLToPath } from 'node:url'
+import { Worker } from 'node:worker_threads'
+import { ellipsoidMesh, perturbedEllipsoid } from '../shared/geometry/generate'
+import { writeObj, writePly } from '../shared/geometry/writers'
+import { readMesh } from '../shared/geometry/readers'
+import { validateMesh } from '../shared/geometry/validate'
+import { massProperties } from '../shared/geometry/mass'
+import { evaluationPoints, potential, preparePolyhedron, summarise } from '../shared/geometry/gravity'
+
+const self = fileURLToPath(import.meta.url)
+const ms = (t: number) => `${t.toFixed(0)} ms`
+
+/** Child phase: read + validate + mass of one file, 3 rounds; prints JSON. */
+function pipelinePhase(path: string): void {
+  const rounds: { read: number, validate: number, mass: number }[] = []
+  for (let r = 0; r < 3; r++) {
+    const bytes = readFileSync(path)
+    const t0 = performance.now()
+    const { mesh } = readMesh(bytes)
+    const t1 = performance.now()
+    const v = validateMesh(mesh)
+    const t2 = performance.now()
+    massProperties(v.mesh, { density: 1000 })
+    const t3 = performance.now()
+    rounds.push({ read: t1 - t0, validate: t2 - t1, mass: t3 - t2 })
+  }
+  const maxRssMB = process.resourceUsage().maxRSS / 1024
+  process.stdout.write(JSON.stringify({ rounds, maxRssMB }))
+}
+
+function runChild(path: string): { rounds: { read: number, validate: number, mass: number }[], maxRssMB: number } {
+  const r = spawnSync(process.execPath, ['--import', 'tsx', self, '--pipeline', path], { encoding: 'utf8', maxBuffer: 1 << 20 })
+  if (r.status !== 0) throw new Error(`bench child failed: ${r.stderr}`)
+  return JSON.parse(r.stdout)
+}
+
+export async function runGeometryBench(): Promise<void> {
+  const dir = mkdtempSync(join(tmpdir(), 'isthmus-bench-'))
+  try {
+    let t = performance.now()
+    const big = ellipsoidMesh(3000, 2000, 1500, 8)
+    console.log(`generated ellipsoid: ${big.indices.length / 3} faces, ${big.positions.length / 3} vertices in ${ms(performance.now() - t)}`)
+    const plyPath = join(dir, 'lobe.ply'), objPath = join(dir, 'lobe.obj')
+    t = performance.now()
+    const ply = writePly(big, 'binary_little_endian')
+    writeFileSync(plyPath, ply)
+    const obj = writeObj(big)
+    writeFileSync(objPath, obj)
+    console.log(`wrote binary PLY ${(ply.length / 1e6).toFixed(1)} MB and OBJ ${(obj.length / 1e6).toFixed(1)} MB in ${ms(performance.now() - t)}`)
+    for (const [name, path] of [['binary PLY', plyPath], ['OBJ', objPath]] as const) {
+      const res = runChild(path)
+      const first = res.rounds[0]!
+      const best = res.rounds.reduce((a, b) => (a.read + a.validate + a.mass <= b.read + b.validate + b.mass ? a : b))
+      const fmt = (r: typeof first) => `read ${ms(r.read)}, validate ${ms(r.validate)}, mass ${ms(r.mass)}, total ${ms(r.read + r.validate + r.mass)}`
+      console.log(`${name}: first run ${fmt(first)}; best of 3 ${fmt(best)}; peak RSS of that process ${res.maxRssMB.toFixed(0)} MB`)
+    }
+
+    // polyhedral gravity rate
+    const lobe = perturbedEllipsoid(1500, 1000, 800, 5, 7, 0.15)
+    const nf = lobe.indices.length / 3
+    const model = preparePolyhedron(validateMesh(lobe).mesh)
+    const np = 200
+    t = performance.now()
+    for (let i = 0; i < np; i++) potential(model, 1000, [3000 + i, 100, 50])
+    const dt = (performance.now() - t) / 1000
+    console.log(`polyhedral gravity (${nf} faces, ${model.edgeLengths.length} edges): ${((nf * np) / dt / 1e6).toFixed(1)} M face·points/s on one thread`)
+
+    // surface field on 2 workers, evaluation points = the lobe's own face centroids
+    const ep = await evaluationPoints(lobe, nf)
+    const n = ep.points.length / 3
+    t = performance.now()
+    const half = Math.ceil(n / 2)
+    const omega: [number, number, number] = [0, 0, (2 * Math.PI) / (6 * 3600)]
+    const parts = await Promise.all([[0, half], [half, n]].map(([start, end]) => new Promise<{ gravity: Float64Array, slopeDeg: Float64Array }>((resolve, reject) => {
+      // a .ts worker: register tsx's loader inside the worker, then import the worker module
+      const api = import.meta.resolve('tsx/esm/api')
+      const entry = new URL('./geometry-worker.ts', import.meta.url).href
+      const w = new Worker(`import(${JSON.stringify(api)}).then((m) => { m.register(); return import(${JSON.stringify(entry)}) })`, {
+        eval: true,
+        workerData: { positions: lobe.positions, indices: lobe.indices, points: ep.points, normals: ep.normals, density: 1000, omega, start, end },
+      })
+      w.once('message', (m) => { resolve(m); void w.terminate() })
+      w.once('error', reject)
+    })))
+    const field = (performance.now() - t) / 1000
+    const g = new Float64Array(n)
+    g.set(parts[0]!.gravity, 0); g.set(parts[1]!.gravity, half)
+    const s = summarise(g, ep.areas)
+    console.log(`surface field, ${nf}-face lobe at ${n} points on 2 worker threads: ${field.toFixed(2)} s (${((nf * n) / field / 1e6).toFixed(1)} M face·points/s), |g| ${s.min.toExponential(3)}..${s.max.toExponential(3)} m/s², area-weighted mean ${s.mean.toExponential(3)}`)
+    console.log(`peak RSS of the bench process: ${(process.resourceUsage().maxRSS / 1024).toFixed(0)} MB`)
+  } finally {
+    rmSync(dir, { recursive: true, force: true })
+  }
+}
+
+const argv = process.argv
+if (argv[2] === '--pipeline') pipelinePhase(argv[3]!)
+else if (argv[1] && fileURLToPath(import.meta.url) === argv[1]) await runGeometryBench()
