@@ -166,32 +166,32 @@ export function polyhedronMoments34(mesh: TriMesh, origin: Vec3): Float64Array {
       const w0 = QF[o]!, w1 = QF[o + 1]!, w2 = QF[o + 2]!
       const x = w0 * ax + w1 * bx + w2 * cx, y = w0 * ay + w1 * by + w2 * cy, z = w0 * az + w1 * bz + w2 * cz
       let w = QW[q]! * v3 / 6
-        m0 += w * x*x*x
-        m1 += w * x*x*y
-        m2 += w * x*x*z
-        m3 += w * x*y*y
-        m4 += w * x*y*z
-        m5 += w * x*z*z
-        m6 += w * y*y*y
-        m7 += w * y*y*z
-        m8 += w * y*z*z
-        m9 += w * z*z*z
+      m0 += w * x * x * x
+      m1 += w * x * x * y
+      m2 += w * x * x * z
+      m3 += w * x * y * y
+      m4 += w * x * y * z
+      m5 += w * x * z * z
+      m6 += w * y * y * y
+      m7 += w * y * y * z
+      m8 += w * y * z * z
+      m9 += w * z * z * z
       w = w * 6 / 7
-        m10 += w * x*x*x*x
-        m11 += w * x*x*x*y
-        m12 += w * x*x*x*z
-        m13 += w * x*x*y*y
-        m14 += w * x*x*y*z
-        m15 += w * x*x*z*z
-        m16 += w * x*y*y*y
-        m17 += w * x*y*y*z
-        m18 += w * x*y*z*z
-        m19 += w * x*z*z*z
-        m20 += w * y*y*y*y
-        m21 += w * y*y*y*z
-        m22 += w * y*y*z*z
-        m23 += w * y*z*z*z
-        m24 += w * z*z*z*z
+      m10 += w * x * x * x * x
+      m11 += w * x * x * x * y
+      m12 += w * x * x * x * z
+      m13 += w * x * x * y * y
+      m14 += w * x * x * y * z
+      m15 += w * x * x * z * z
+      m16 += w * x * y * y * y
+      m17 += w * x * y * y * z
+      m18 += w * x * y * z * z
+      m19 += w * x * z * z * z
+      m20 += w * y * y * y * y
+      m21 += w * y * y * y * z
+      m22 += w * y * y * z * z
+      m23 += w * y * z * z * z
+      m24 += w * z * z * z * z
     }
   }
   return Float64Array.from([m0, m1, m2, m3, m4, m5, m6, m7, m8, m9, m10, m11, m12, m13, m14, m15, m16, m17, m18, m19, m20, m21, m22, m23, m24])

@@ -6,7 +6,7 @@
  */
 import { GeometryError } from './types'
 import type { TriMesh } from './types'
-import { F64Builder, U32Builder, checkIndexRange, isSep, parseInteger, parseNumber, tokenEnd } from './readers'
+import { F64Builder, U32Builder, checkIndexRange, isSep, parseInteger, parseNumber, cursor } from './readers'
 
 export interface ObjLimits { maxVertices: number, maxFaces: number }
 
@@ -44,7 +44,7 @@ export function readObj(b: Uint8Array, limits: ObjLimits): { mesh: TriMesh, sour
         const v = parseNumber(b, i, end)
         if (Number.isNaN(v)) fail('bad-number', 'unparsable coordinate', line)
         a[pos.n++] = v
-        i = tokenEnd
+        i = cursor.end
       }
       nv++
     } else if (c === 102 /* f */ && (next === 32 || next === 9)) {
@@ -54,7 +54,7 @@ export function readObj(b: Uint8Array, limits: ObjLimits): { mesh: TriMesh, sour
         while (i < end && (b[i] === 32 || b[i] === 9 || b[i] === 13)) i++
         if (i >= end || b[i] === 10 || b[i] === 35) break
         let r = parseInteger(b, i, end)
-        i = tokenEnd
+        i = cursor.end
         if (Number.isNaN(r) || (i < end && b[i] !== 47 /* / */ && !isSep(b[i]!))) fail('bad-face', 'unparsable vertex reference in face', line)
         // skip /vt/vn
         while (i < end && !isSep(b[i]!)) i++

@@ -9,7 +9,7 @@
  */
 import { GeometryError } from './types'
 import type { TriMesh } from './types'
-import { U32Builder, checkIndexRange, isSep, latin1, parseNumber, tokenEnd } from './readers'
+import { U32Builder, checkIndexRange, isSep, latin1, parseNumber, cursor } from './readers'
 
 export interface PlyLimits { maxVertices: number, maxFaces: number }
 
@@ -329,7 +329,7 @@ function readAsciiBody(b: Uint8Array, h: PlyHeader, vEl: Element, fEl: Element, 
     while (i < end && (b[i] === 32 || b[i] === 9 || b[i] === 13 || b[i] === 12)) i++
     if (i >= end || b[i] === 10 || b[i] === 35) { lineEnded = true; return Number.NaN }
     const v = parseNumber(b, i, end)
-    i = tokenEnd
+    i = cursor.end
     if (Number.isNaN(v)) throw new GeometryError('bad-number', `readPly: unparsable number (body line ${line})`, [{ path: `body.line[${line}]`, message: 'unparsable number' }])
     return v
   }

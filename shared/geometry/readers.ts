@@ -106,8 +106,8 @@ export function latin1(b: Uint8Array, start: number, end: number): string {
 const POW10 = [1e0, 1e1, 1e2, 1e3, 1e4, 1e5, 1e6, 1e7, 1e8, 1e9, 1e10, 1e11, 1e12, 1e13, 1e14, 1e15, 1e16, 1e17, 1e18, 1e19, 1e20, 1e21, 1e22]
 const MAX_EXACT = 9007199254740991
 
-/** End offset of the last token read by `parseNumber` / `parseInteger`. */
-export let tokenEnd = 0
+/** `cursor.end`: end offset of the last token read by `parseNumber` / `parseInteger`. */
+export const cursor = { end: 0 }
 
 /** True for bytes that end a token: space, tab, CR, LF, FF, VT, NUL, '#'. */
 export function isSep(c: number): boolean {
@@ -117,7 +117,7 @@ export function isSep(c: number): boolean {
 /**
  * Parse the number token starting at `i` (no leading spaces), ending at a separator or `end`.
  * Returns NaN when `Number()` would (the caller raises the error with the line number).
- * Sets `tokenEnd`.
+ * Sets `cursor.end`.
  */
 export function parseNumber(b: Uint8Array, i: number, end: number): number {
   const start = i
@@ -163,7 +163,7 @@ export function parseNumber(b: Uint8Array, i: number, end: number): number {
     e10 += eneg ? -ev : ev
   }
   if (ok && (i >= end || isSep(b[i]!))) {
-    tokenEnd = i
+    cursor.end = i
     if (m === 0) return neg ? -0 : 0
     if (m <= MAX_EXACT && e10 >= -22 && e10 <= 22) {
       const v = e10 < 0 ? m / POW10[-e10]! : m * POW10[e10]!
@@ -173,7 +173,7 @@ export function parseNumber(b: Uint8Array, i: number, end: number): number {
   // slow path: the whole token through Number()
   let j = start
   while (j < end && !isSep(b[j]!)) j++
-  tokenEnd = j
+  cursor.end = j
   if (j - start > 400) return Number.NaN
   const s = latin1(b, start, j)
   return Number(s)
@@ -182,7 +182,7 @@ export function parseNumber(b: Uint8Array, i: number, end: number): number {
 /**
  * Parse a decimal integer (optional sign) at `i`; stops at the first non-digit (so `12/5/7`
  * reads 12). Returns NaN when there are no digits or the value exceeds 2^53.
- * Sets `tokenEnd`.
+ * Sets `cursor.end`.
  */
 export function parseInteger(b: Uint8Array, i: number, end: number): number {
   let neg = false
@@ -197,7 +197,7 @@ export function parseInteger(b: Uint8Array, i: number, end: number): number {
     nd++
     i++
   }
-  tokenEnd = i
+  cursor.end = i
   if (nd === 0 || v > MAX_EXACT) return Number.NaN
   return neg ? -v : v
 }
@@ -214,6 +214,7 @@ export class U32Builder {
     b.set(this.a.subarray(0, this.n))
     this.a = b
   }
+
   finish(): Uint32Array { return this.a.length === this.n ? this.a : this.a.slice(0, this.n) }
 }
 
@@ -229,6 +230,7 @@ export class F64Builder {
     b.set(this.a.subarray(0, this.n))
     this.a = b
   }
+
   finish(): Float64Array { return this.a.length === this.n ? this.a : this.a.slice(0, this.n) }
 }
 
