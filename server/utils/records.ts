@@ -3,6 +3,7 @@ import { and, asc, desc, eq, inArray, ne, sql } from 'drizzle-orm'
 import type { Attachment, AttachmentComment, Lobe, ObjectRecord, Study } from '../db/schema'
 import { quantityDef, RECORD_SUBJECT_LABELS, type RecordSubject } from '../../shared/types/quantities'
 import type { RecordMailKind, HeliocentricOrbit } from '../../shared/types/records'
+import { idParamSchema } from '../../shared/types/account'
 
 /** Printed with every record, export and citation: the values are model estimates. */
 export const RECORD_CAUTIONS = [
@@ -279,4 +280,25 @@ export async function sendRecordMails(event: H3Event, to: { id: number, email: s
         .catch(e => console.error('[isthmus] could not audit a failed mail:', e))
     }
   }
+}
+
+/**
+ * Loads a record for an export route (viewer): an export made with an API token is audited.
+ * @throws 404 when the record does not exist
+ */
+export async function recordForExport(event: H3Event, format: 'json' | 'csv' | 'txt') {
+  const actor = await requireRole(event, 'viewer')
+  const { id } = paramsAs(event, idParamSchema)
+  const data = await loadRecord(useDB(), id)
+  if (!data) throw recordNotFound()
+  if (actor.via === 'token') {
+    await audit(event, { actorId: actor.id, action: 'record.exported', subjectType: 'object', subjectId: id, detail: { format, token: actor.tokenId } })
+  }
+  const { following: _following, ...rest } = data
+  return rest
+}
+
+/** A file name from a designation: letters, digits, dashes. */
+export function recordFileName(designation: string): string {
+  return `isthmus-${designation.normalize('NFKD').replace(/[^\w-]+/g, '-').replace(/^-+|-+$/g, '') || 'record'}`
 }

@@ -12,7 +12,7 @@ export default defineEventHandler(async (event) => {
   if (q.owner) where.push(eq(l.ownerId, q.owner))
   const cond = where.length ? and(...where) : undefined
   const sortCol = {
-    createdAt: l.createdAt, name: l.name, faceCount: l.faceCount, density: l.density,
+    createdAt: l.createdAt, name: sql`lower(${l.name})`, faceCount: l.faceCount, density: l.density,
     volume: sql`json_extract(${l.properties}, '$.volume')`,
   }[q.sort]
   const rows = await db.select({ lobe: l, ownerName: schema.users.name }).from(l).innerJoin(schema.users, eq(schema.users.id, l.ownerId))

@@ -1,18 +1,7 @@
-import { rename, rm } from 'node:fs/promises'
-import { join } from 'node:path'
+import { rm } from 'node:fs/promises'
 import formidable, { errors as formidableErrors } from 'formidable'
-import { eq } from 'drizzle-orm'
 import { lobeUploadFieldsSchema } from '#shared/types/lobes'
-import { ALGORITHM_VERSION } from '#shared/utils/version'
 import { zodIssues } from '../../utils/validate'
-
-interface AnalyseResult {
-  format: 'obj' | 'ply'
-  sourceFaceCount: number
-  triangulatedPolygons: number
-  properties: Record<string, unknown> & { equivalentRadius: number }
-  report: Record<string, unknown> & { warnings: { code: string, message: string }[], vertexCount: number, faceCount: number }
-}
 
 /**
  * Upload one lobe mesh (multipart: `file`, `units` m|km, `density` kg m⁻³, `name`, optional
@@ -66,50 +55,13 @@ export default defineEventHandler(async (event) => {
     }
     const input = parsed.data
     if (file.size === 0) throw unprocessable('The file is empty', [{ path: 'file', message: 'empty file' }], 'empty-file')
-    const sha256 = String(file.hash)
-    const derived = derivedMeshPaths(sha256, input.units)
-    let analysed: AnalyseResult
-    try {
-      analysed = await useWorkerPool().run<AnalyseResult>('analyse', {
-        filePath: file.filepath, units: input.units, density: input.density, referenceRadius: input.referenceRadius,
-        analysisMeshPath: derived.analysis, displayMeshPath: derived.display, displayFaceBudget: DISPLAY_FACE_BUDGET, maxFaces: 20_000_000,
-      }, { priority: 10 })
-    }
-    catch (error) {
-      throw toHttpError(error)
-    }
-    const ext = analysed.format
-    const storedPath = join('meshes', `${sha256}.${ext}`)
-    const db = useDB()
-    const existing = await db.select().from(schema.meshFiles).where(eq(schema.meshFiles.sha256, sha256)).get()
-    if (existing) await rm(file.filepath, { force: true })
-    else {
-      await rename(file.filepath, join(paths.root, storedPath))
-      await db.insert(schema.meshFiles).values({ sha256, format: ext, byteSize: file.size, storedPath }).onConflictDoNothing()
-    }
+    const { lobe, job } = await ingestLobe({
+      filePath: file.filepath, size: file.size, sha256: String(file.hash), originalName: file.originalFilename, ownerId: actor.id, ...input,
+    })
     tmpPath = undefined
-    const name = input.name || (file.originalFilename ?? 'lobe').replace(/\.(obj|ply)$/i, '').slice(0, 120) || 'lobe'
-    const [lobe] = await db.insert(schema.lobes).values({
-      name,
-      ownerId: actor.id,
-      sha256,
-      sourceFileName: (file.originalFilename ?? `${sha256}.${ext}`).slice(0, 255),
-      format: ext,
-      units: input.units,
-      density: input.density,
-      referenceRadius: input.referenceRadius ?? null,
-      spinPeriodHours: input.spinPeriodHours ?? null,
-      vertexCount: analysed.report.vertexCount,
-      faceCount: analysed.report.faceCount,
-      warnings: analysed.report.warnings,
-      report: { ...analysed.report, sourceFaceCount: analysed.sourceFaceCount, triangulatedPolygons: analysed.triangulatedPolygons },
-      properties: analysed.properties,
-      algorithmVersion: ALGORITHM_VERSION,
-    }).returning()
-    const job = await startSurfaceJob(db, lobe!)
-    await audit(event, { actorId: actor.id, action: 'lobe.uploaded', subjectType: 'lobe', subjectId: lobe!.id, detail: { sha256, faces: lobe!.faceCount, density: input.density, units: input.units } })
+    await audit(event, { actorId: actor.id, action: 'lobe.uploaded', subjectType: 'lobe', subjectId: lobe.id, detail: { sha256: lobe.sha256, faces: lobe.faceCount, density: input.density, units: input.units } })
     setResponseStatus(event, 201)
-    return lobeView(lobe!, job, { id: actor.id, name: actor.name })
+    return lobeView(lobe, job, { id: actor.id, name: actor.name })
   }
   finally {
     // Nothing half-written stays behind: a failed or repeated upload leaves no temporary file.

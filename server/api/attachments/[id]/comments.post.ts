@@ -1,0 +1,24 @@
+import { eq } from 'drizzle-orm'
+import { idParamSchema } from '#shared/types/account'
+import { attachmentCommentSchema } from '#shared/types/records'
+
+/**
+ * Comment on an attachment (any member: a comment changes no value). Followers of the record who
+ * want comment mails are told.
+ */
+export default defineEventHandler(async (event) => {
+  const actor = await requireRole(event, 'viewer')
+  const { id } = paramsAs(event, idParamSchema)
+  const { body } = await readBodyAs(event, attachmentCommentSchema)
+  const db = useDB()
+  const target = await db.select().from(schema.attachments).where(eq(schema.attachments.id, id)).get()
+  if (!target) throw notFound('Attachment')
+  const [row] = await db.insert(schema.attachmentComments).values({ attachmentId: id, authorId: actor.id, kind: 'comment', body }).returning()
+  await audit(event, { actorId: actor.id, action: 'record.comment-added', subjectType: 'attachment', subjectId: id, detail: { object: target.objectId, comment: row!.id } })
+  const record = await db.select({ designation: schema.objects.designation }).from(schema.objects).where(eq(schema.objects.id, target.objectId)).get()
+  const names = await memberNames(db, [target.proposedBy, target.reviewedBy, actor.id])
+  const to = await mailRecipients(db, { kind: 'comments', followersOf: target.objectId, exclude: actor.id })
+  await sendRecordMails(event, to, recordCommentMail({ designation: record?.designation ?? `#${target.objectId}`, author: actor.name, value: attachmentView(target, names), body, link: publicLink(`/objects/${target.objectId}`) }), { action: 'record.comment-added', objectId: target.objectId, attachmentIds: [id] })
+  setResponseStatus(event, 201)
+  return commentView(row!, names)
+})

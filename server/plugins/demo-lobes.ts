@@ -1,0 +1,4 @@
+// Demo mode: procedurally generated lobes of invented bodies.
+export default defineNitroPlugin(() => {
+  registerDemoSeeder(seedDemoLobes)
+})

@@ -1,0 +1,76 @@
+import { rename, rm } from 'node:fs/promises'
+import { join } from 'node:path'
+import { eq } from 'drizzle-orm'
+import { ALGORITHM_VERSION } from '../../shared/utils/version'
+
+interface AnalyseResult {
+  format: 'obj' | 'ply'
+  sourceFaceCount: number
+  triangulatedPolygons: number
+  properties: Record<string, unknown>
+  report: Record<string, unknown> & { warnings: { code: string, message: string }[], vertexCount: number, faceCount: number }
+}
+
+export interface IngestInput {
+  /** A file inside UPLOADS_DIR/tmp (renames across file systems fail). Moved or removed here. */
+  filePath: string
+  size: number
+  sha256: string
+  originalName?: string | null
+  ownerId: number
+  name?: string
+  units: 'm' | 'km'
+  density: number
+  referenceRadius?: number
+  spinPeriodHours?: number
+}
+
+/**
+ * Analyses a mesh file on a worker thread, stores it by content hash (one rename; a repeated upload
+ * keeps the stored copy), records the lobe and queues its surface-field job.
+ * @throws 422 (GeometryError mapped by toHttpError) when the mesh cannot be used.
+ */
+export async function ingestLobe(input: IngestInput) {
+  const paths = uploadPaths()
+  const derived = derivedMeshPaths(input.sha256, input.units)
+  let analysed: AnalyseResult
+  try {
+    analysed = await useWorkerPool().run<AnalyseResult>('analyse', {
+      filePath: input.filePath, units: input.units, density: input.density, referenceRadius: input.referenceRadius,
+      analysisMeshPath: derived.analysis, displayMeshPath: derived.display, displayFaceBudget: DISPLAY_FACE_BUDGET, maxFaces: 20_000_000,
+    }, { priority: 10 })
+  }
+  catch (error) {
+    await rm(input.filePath, { force: true })
+    throw toHttpError(error)
+  }
+  const ext = analysed.format
+  const storedPath = join('meshes', `${input.sha256}.${ext}`)
+  const db = useDB()
+  const existing = await db.select().from(schema.meshFiles).where(eq(schema.meshFiles.sha256, input.sha256)).get()
+  if (existing) await rm(input.filePath, { force: true })
+  else {
+    await rename(input.filePath, join(paths.root, storedPath))
+    await db.insert(schema.meshFiles).values({ sha256: input.sha256, format: ext, byteSize: input.size, storedPath }).onConflictDoNothing()
+  }
+  const fallbackName = (input.originalName ?? 'lobe').replace(/\.(obj|ply)$/i, '').slice(0, 120) || 'lobe'
+  const [lobe] = await db.insert(schema.lobes).values({
+    name: input.name || fallbackName,
+    ownerId: input.ownerId,
+    sha256: input.sha256,
+    sourceFileName: (input.originalName ?? `${input.sha256}.${ext}`).slice(0, 255),
+    format: ext,
+    units: input.units,
+    density: input.density,
+    referenceRadius: input.referenceRadius ?? null,
+    spinPeriodHours: input.spinPeriodHours ?? null,
+    vertexCount: analysed.report.vertexCount,
+    faceCount: analysed.report.faceCount,
+    warnings: analysed.report.warnings,
+    report: { ...analysed.report, sourceFaceCount: analysed.sourceFaceCount, triangulatedPolygons: analysed.triangulatedPolygons },
+    properties: analysed.properties,
+    algorithmVersion: ALGORITHM_VERSION,
+  }).returning()
+  const job = await startSurfaceJob(db, lobe!)
+  return { lobe: lobe!, job }
+}
