@@ -10,7 +10,7 @@ export const RECORD_CAUTIONS = [
   'Every value is a model estimate under stated assumptions, never a measurement.',
   'Lobe values assume a homogeneous interior at the stated bulk density and take the mesh as the exact surface; mesh resolution, patched holes, porosity and density contrasts change them.',
   'Gravity coefficients (J2, C22, …) are meaningful only with their reference radius and normalisation.',
-  'Study values depend on the chosen approach (relative orbit, orientation) and the lobe recordDensities; a spread, where given, covers only the inputs that were varied.',
+  'Study values depend on the chosen approach (relative orbit, orientation) and the lobe densities; a spread, where given, covers only the inputs that were varied.',
 ]
 
 type Named = { id: number, name: string } | null
@@ -190,7 +190,7 @@ export function lobeProvenance(l: Lobe, actor: { id: number, name: string }, at:
   }
 }
 
-/** Frozen provenance of a value attached from a study: both meshes, recordDensities, the study inputs (approach) and versions. */
+/** Frozen provenance of a value attached from a study: both meshes, densities, the study inputs (approach) and versions. */
 export function studyProvenance(s: Study, a: Lobe | undefined, b: Lobe | undefined, actor: { id: number, name: string }, at: Date) {
   return {
     source: 'study',
@@ -199,7 +199,7 @@ export function studyProvenance(s: Study, a: Lobe | undefined, b: Lobe | undefin
     lobeB: b ? lobeBlock(b) : { id: s.lobeBId },
     algorithmVersion: s.algorithmVersion,
     softwareVersion: useRuntimeConfig().version,
-    assumptions: 'Homogeneous lobes at the stated recordDensities, meshes taken as exact, the approach as given in the study inputs.',
+    assumptions: 'Homogeneous lobes at the stated densities, meshes taken as exact, the approach as given in the study inputs.',
     attachedBy: { id: actor.id, name: actor.name },
     attachedAt: at.toISOString(),
   }

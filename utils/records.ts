@@ -1,0 +1,39 @@
+/** Display helpers for record values (pages only; exports keep full precision). */
+
+/** A value for reading: 6 significant digits, or the exact form when it is already short. */
+export function formatRecordNumber(v: number): string {
+  const exact = String(v)
+  if (exact.replace(/^-|\.|e.*$/g, '').length <= 7) return exact
+  const abs = Math.abs(v)
+  return abs !== 0 && (abs >= 1e6 || abs < 1e-3) ? v.toExponential(5) : String(Number(v.toPrecision(6)))
+}
+
+export function formatRecordValue(value: number | number[] | null | undefined): string {
+  if (value === null || value === undefined) return '—'
+  return Array.isArray(value) ? `[${value.map(formatRecordNumber).join(', ')}]` : formatRecordNumber(value)
+}
+
+/** The exact value, for a tooltip or copy. */
+export function exactRecordValue(value: number | number[] | null | undefined): string {
+  if (value === null || value === undefined) return ''
+  return Array.isArray(value) ? `[${value.map(String).join(', ')}]` : String(value)
+}
+
+export function formatRecordSpread(spread: Record<string, number | string> | null | undefined): string {
+  if (!spread) return ''
+  const n = (k: string) => (typeof spread[k] === 'number' ? spread[k] as number : undefined)
+  const sd = n('sd') ?? n('std')
+  const what = spread.basis === 'surface-range' ? 'surface range' : 'spread'
+  if (sd !== undefined) return `± ${formatRecordNumber(sd)} (${what})`
+  const lo = n('min') ?? n('low') ?? n('p05') ?? n('p16')
+  const hi = n('max') ?? n('high') ?? n('p95') ?? n('p84')
+  if (lo !== undefined && hi !== undefined) return `${what} ${formatRecordNumber(lo)} … ${formatRecordNumber(hi)}`
+  return ''
+}
+
+export const RECORD_STATE_CLASSES: Record<string, string> = {
+  proposed: 'bg-regolith-100 text-regolith-800',
+  accepted: 'bg-ice-100 text-ice-800',
+  rejected: 'bg-red-100 text-red-800',
+  superseded: 'bg-basalt-100 text-basalt-600',
+}
