@@ -2,4 +2,5 @@
 // database is ready.
 export default defineNitroPlugin(() => {
   onServerReady(recoverSurfaceJobs)
+  onServerReady(recoverStudies)
 })

@@ -3,12 +3,13 @@
  * { id, task, payload } in; { id, progress } / { id, result } / { id, error } out.
  * Built with esbuild into `<server>/workers/lobe-worker.mjs` (see nuxt.config.ts).
  */
-import { readFile, writeFile, rename } from 'node:fs/promises'
+import { readFile } from 'node:fs/promises'
 import { parentPort } from 'node:worker_threads'
 import { GeometryError, evaluationPoints, massProperties, preparePolyhedron, readMesh, summarise, surfaceEscapeSpeed, surfaceFieldChunk, validateMesh } from '../../shared/geometry'
 import type { PolyhedronModel, TriMesh, Vec3 } from '../../shared/geometry'
-import { decodeAnalysisMesh, encodeAnalysisMesh, encodeDisplayMesh } from '../../shared/utils/mesh-binary'
+import { decodeAnalysisMesh, encodeAnalysisMesh } from '../../shared/utils/mesh-binary'
 import { extraTasks } from './extra-tasks'
+import { displayBytes, writeAtomic } from './worker-io'
 
 export interface AnalysePayload {
   filePath: string
@@ -33,23 +34,6 @@ export interface FieldChunkPayload {
 
 const port = parentPort!
 
-async function writeAtomic(path: string, bytes: Uint8Array) {
-  const tmp = `${path}.${process.pid}.${Math.random().toString(36).slice(2)}.tmp`
-  await writeFile(tmp, bytes)
-  await rename(tmp, path)
-}
-
-async function toDisplay(mesh: TriMesh, budget: number) {
-  const simplified = mesh.indices.length / 3 > budget ? (await evaluationPoints(mesh, budget)).mesh : mesh
-  const P = simplified.positions
-  const origin: Vec3 = [0, 0, 0]
-  const n = P.length / 3
-  for (let i = 0; i < n; i++) for (let d = 0; d < 3; d++) origin[d] += P[3 * i + d] / n
-  const f32 = new Float32Array(P.length)
-  for (let i = 0; i < P.length; i++) f32[i] = P[i] - origin[i % 3]
-  return { bytes: encodeDisplayMesh({ origin, positions: f32, indices: simplified.indices }), faces: simplified.indices.length / 3 }
-}
-
 async function analyse(p: AnalysePayload, progress: (f: number, stage: string) => void) {
   progress(0.05, 'reading')
   const bytes = new Uint8Array(await readFile(p.filePath))
@@ -65,8 +49,7 @@ async function analyse(p: AnalysePayload, progress: (f: number, stage: string) =
   progress(0.75, 'storing')
   await writeAtomic(p.analysisMeshPath, encodeAnalysisMesh(mesh.positions, mesh.indices))
   progress(0.85, 'display copy')
-  const display = await toDisplay(mesh, p.displayFaceBudget)
-  await writeAtomic(p.displayMeshPath, display.bytes)
+  await writeAtomic(p.displayMeshPath, await displayBytes(mesh, p.displayFaceBudget))
   const { faceOrigin: _faceOrigin, ...reportOut } = report
   return {
     format: read.format,
@@ -74,7 +57,6 @@ async function analyse(p: AnalysePayload, progress: (f: number, stage: string) =
     triangulatedPolygons: read.triangulatedPolygons,
     properties,
     report: reportOut,
-    displayFaces: display.faces,
   }
 }
 

@@ -88,6 +88,8 @@ export interface ContactStudyResult {
   spread: SpreadSummary | null
   massModel: MassModel
   algorithmVersion: string
+  /** The merged body's mesh in the contact frame (the manifold union, or both lobes at overlap 0). */
+  unionMesh?: TriMesh
 }
 
 export interface StudyOptions {
@@ -184,6 +186,7 @@ export async function runContactStudy(input: ContactStudyInput, opts: StudyOptio
     spread,
     massModel: input.massModel,
     algorithmVersion: CONTACT_ALGORITHM_VERSION,
+    unionMesh: union,
   }
 }
 

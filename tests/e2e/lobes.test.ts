@@ -3,14 +3,10 @@ import { join } from 'node:path'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { boxMesh, icosphere, writeObj, writePly } from '../../shared/geometry'
 import { Agent } from './support/http'
+import { uploadLobe } from './support/lobes'
 import { startServer, type RunningServer } from './support/server'
 
-function upload(agent: Agent, bytes: Uint8Array, name: string, fields: Record<string, string>) {
-  const form = new FormData()
-  for (const [k, v] of Object.entries(fields)) form.set(k, v)
-  form.set('file', new Blob([bytes]), name)
-  return agent.post('/api/lobes', form)
-}
+const upload = uploadLobe
 
 async function waitForSurface(agent: Agent, id: number, timeoutMs = 60_000) {
   const deadline = Date.now() + timeoutMs

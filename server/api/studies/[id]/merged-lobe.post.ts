@@ -1,0 +1,20 @@
+import { existsSync } from 'node:fs'
+import { z } from 'zod'
+import { idParamSchema } from '#shared/types/account'
+
+const body = z.object({ name: z.string().trim().min(1).max(120).optional() })
+
+/** Save the merged body of a finished study as a new lobe (at the merged bulk density) → 201 lobe. */
+export default defineEventHandler(async (event) => {
+  const actor = await requireRole(event, 'analyst')
+  const { id } = paramsAs(event, idParamSchema)
+  const { name } = await readBodyAs(event, body)
+  const row = await loadStudy(useDB(), id)
+  const path = studyMeshPaths(row.study.cacheKey).analysis
+  const merged = (row.study.result as { merged?: { density?: number } } | null)?.merged
+  if (row.study.status !== 'done' || !merged?.density || !existsSync(path)) throw createError({ status: 409, statusText: 'Conflict', message: 'This study has no merged body (not finished, or no contact)' })
+  const { lobe, job } = await lobeFromAnalysisMesh(path, { ownerId: actor.id, name: name ?? `${row.a.name} + ${row.b.name} (merged, study ${id})`, fileName: `study-${id}-merged.ply`, density: merged.density })
+  await audit(event, { actorId: actor.id, action: 'lobe.from-study', subjectType: 'lobe', subjectId: lobe.id, detail: { study: id } })
+  setResponseStatus(event, 201)
+  return lobeView(lobe, job, { id: actor.id, name: actor.name })
+})

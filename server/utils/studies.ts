@@ -1,0 +1,148 @@
+import { join } from 'node:path'
+import { and, desc, eq, inArray } from 'drizzle-orm'
+import type { Lobe, Study } from '../db/schema'
+import type { StudyInput } from '../../shared/types/studies'
+import { AU_M } from '../../shared/types/studies'
+import type { MassProperties } from '../../shared/geometry'
+import { CONTACT_ALGORITHM_VERSION } from '../../shared/geometry/contactStudy'
+import { ALGORITHM_VERSION } from '../../shared/utils/version'
+
+export const STUDY_ALGORITHM_VERSION = `${ALGORITHM_VERSION}; ${CONTACT_ALGORITHM_VERSION}`
+
+/** Derived files of a study result (union mesh), named by its cache key. */
+export function studyMeshPaths(cacheKey: string) {
+  const { derived } = uploadPaths()
+  return { analysis: join(derived, `union-${cacheKey}.analysis.bin`), display: join(derived, `union-${cacheKey}.display.bin`) }
+}
+
+/** The study as the API shows it (`result` keys are a contract: see the OpenAPI document). */
+export function studyView(s: Study, lobes: { a?: Pick<Lobe, 'id' | 'name' | 'sha256'>, b?: Pick<Lobe, 'id' | 'name' | 'sha256'> } = {}, ownerName?: string) {
+  return {
+    id: s.id,
+    title: s.title,
+    status: s.status,
+    progress: s.progress,
+    stage: s.stage,
+    error: s.error,
+    owner: { id: s.ownerId, name: ownerName },
+    lobeA: lobes.a ? { id: lobes.a.id, name: lobes.a.name, sha256: lobes.a.sha256 } : { id: s.lobeAId },
+    lobeB: lobes.b ? { id: lobes.b.id, name: lobes.b.name, sha256: lobes.b.sha256 } : { id: s.lobeBId },
+    input: s.input,
+    result: s.result,
+    algorithmVersion: s.algorithmVersion,
+    createdAt: s.createdAt,
+    startedAt: s.startedAt,
+    finishedAt: s.finishedAt,
+    frame: 'Contact frame: lobe A’s file axes with the origin at A’s centre of mass; B’s file coordinates map by x = R(poseB.quaternion)·x_B + poseB.translation.',
+    assumptions: 'Two-body kinematics at the contact separation (the path before contact is not integrated); homogeneous lobes at the stated densities; meshes taken as exact surfaces. Estimates, not measurements.',
+  }
+}
+
+const controllers = new Map<number, AbortController>()
+
+/** Everything that decides the numbers: both meshes, the validated input with densities filled in, the algorithm. */
+export function studyCacheKey(a: Lobe, b: Lobe, input: StudyInput & { densityA: number, densityB: number }) {
+  const { title: _t, ...numeric } = input
+  return resultKey({ a: [a.sha256, a.units], b: [b.sha256, b.units], input: numeric, v: STUDY_ALGORITHM_VERSION })
+}
+
+/** Queues a study (or reuses a finished one with the same key) and returns its row. */
+export async function createStudy(db: DB, ownerId: number, a: Lobe, b: Lobe, raw: StudyInput): Promise<Study> {
+  const input = { ...raw, densityA: raw.densityA ?? a.density, densityB: raw.densityB ?? b.density }
+  const cacheKey = studyCacheKey(a, b, input)
+  const cached = await db.select().from(schema.studies).where(and(eq(schema.studies.cacheKey, cacheKey), eq(schema.studies.status, 'done'))).orderBy(desc(schema.studies.id)).get()
+  const [row] = await db.insert(schema.studies).values({
+    ownerId, lobeAId: a.id, lobeBId: b.id, title: input.title, input: input as unknown as Record<string, unknown>, cacheKey, algorithmVersion: STUDY_ALGORITHM_VERSION,
+    ...(cached ? { status: 'done' as const, progress: 1, stage: 'reused an identical earlier result', result: cached.result, startedAt: new Date(), finishedAt: new Date() } : {}),
+  }).returning()
+  if (!cached) void runStudy(db, row!, a, b)
+  return row!
+}
+
+async function runStudy(db: DB, study: Study, a: Lobe, b: Lobe) {
+  const ctl = new AbortController()
+  controllers.set(study.id, ctl)
+  const input = study.input as unknown as StudyInput & { densityA: number, densityB: number }
+  let last = 0
+  try {
+    await db.update(schema.studies).set({ status: 'running', startedAt: new Date(), stage: 'waiting for a worker' }).where(eq(schema.studies.id, study.id))
+    const propsA = a.properties as unknown as MassProperties
+    const orbitA = input.orbit.kind === 'bound' ? input.orbit.semiMajorAxis : undefined
+    const paths = studyMeshPaths(study.cacheKey)
+    const result = await useWorkerPool().run<Record<string, unknown>>('study', {
+      meshPathA: derivedMeshPaths(a.sha256, a.units).analysis,
+      meshPathB: derivedMeshPaths(b.sha256, b.units).analysis,
+      keyA: `${a.sha256}-${a.units}`,
+      keyB: `${b.sha256}-${b.units}`,
+      unionAnalysisPath: paths.analysis,
+      unionDisplayPath: paths.display,
+      displayFaceBudget: DISPLAY_FACE_BUDGET,
+      input: {
+        densityA: input.densityA,
+        densityB: input.densityB,
+        orientationB: input.orientationB,
+        direction: input.direction,
+        orbit: input.orbit,
+        orbitNormal: input.orbitNormal ?? defaultOrbitNormal(propsA.principalAxes[2], input.direction),
+        overlapDepth: input.overlapDepth,
+        massModel: input.massModel,
+        spinA: input.spinA,
+        spinB: input.spinB,
+        observedSpinPeriod: input.observedSpinPeriodHours ? input.observedSpinPeriodHours * 3600 : undefined,
+        sweepSteps: input.sweepSteps,
+        screen: input.screen && orbitA !== undefined && input.orbit.kind === 'bound'
+          ? { semiMajorAxis: orbitA, eccentricity: input.orbit.eccentricity, inclinationDeg: input.screen.inclinationDeg, heliocentricSemiMajorAxis: input.screen.heliocentricSemiMajorAxisAu * AU_M, heliocentricEccentricity: input.screen.heliocentricEccentricity, klPrefactor: input.screen.klPrefactor }
+          : undefined,
+        spread: input.spread,
+      },
+    }, {
+      signal: ctl.signal,
+      onProgress: (progress, stage) => {
+        const now = Date.now()
+        if (now - last < 200) return
+        last = now
+        void db.update(schema.studies).set({ progress, stage }).where(and(eq(schema.studies.id, study.id), eq(schema.studies.status, 'running')))
+      },
+    })
+    await db.update(schema.studies).set({ status: 'done', progress: 1, stage: 'done', result, finishedAt: new Date() })
+      .where(and(eq(schema.studies.id, study.id), eq(schema.studies.status, 'running')))
+  }
+  catch (error) {
+    const cancelled = error instanceof TaskCancelled
+    await db.update(schema.studies).set({ status: cancelled ? 'cancelled' : 'failed', error: cancelled ? 'cancelled' : (error as Error).message, finishedAt: new Date() })
+      .where(eq(schema.studies.id, study.id)).catch(() => undefined)
+    if (!cancelled) console.error(`[isthmus] study ${study.id} failed:`, error)
+  }
+  finally {
+    controllers.delete(study.id)
+  }
+}
+
+/** The default plane of relative motion: A's largest-moment axis made perpendicular to the line of centres. */
+export function defaultOrbitNormal(axisC: [number, number, number], direction: [number, number, number]): [number, number, number] {
+  const d = axisC[0] * direction[0] + axisC[1] * direction[1] + axisC[2] * direction[2]
+  let n: [number, number, number] = [axisC[0] - d * direction[0], axisC[1] - d * direction[1], axisC[2] - d * direction[2]]
+  if (Math.hypot(...n) < 1e-9) {
+    // The axis lies along the line: any perpendicular will do; pick the most perpendicular file axis.
+    const e: [number, number, number] = Math.abs(direction[0]) < 0.9 ? [1, 0, 0] : [0, 1, 0]
+    const k = e[0] * direction[0] + e[1] * direction[1] + e[2] * direction[2]
+    n = [e[0] - k * direction[0], e[1] - k * direction[1], e[2] - k * direction[2]]
+  }
+  const len = Math.hypot(...n)
+  return [n[0] / len, n[1] / len, n[2] / len]
+}
+
+/** Stops a queued or running study; true when there was something to stop. */
+export async function cancelStudy(db: DB, id: number): Promise<boolean> {
+  const ctl = controllers.get(id)
+  const [row] = await db.update(schema.studies).set({ status: 'cancelled', error: 'cancelled', finishedAt: new Date() })
+    .where(and(eq(schema.studies.id, id), inArray(schema.studies.status, ['queued', 'running']))).returning()
+  ctl?.abort()
+  return !!row
+}
+
+/** A study that was queued or running when the server stopped is marked failed: it did not finish. */
+export async function recoverStudies(db: DB) {
+  await db.update(schema.studies).set({ status: 'failed', error: 'interrupted by a server restart; run it again', finishedAt: new Date() })
+    .where(inArray(schema.studies.status, ['queued', 'running']))
+}

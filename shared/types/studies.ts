@@ -1,0 +1,80 @@
+import { z } from 'zod'
+
+const vec3 = z.tuple([z.number(), z.number(), z.number()])
+const unit = (what: string) => vec3.refine(v => v.every(Number.isFinite) && Math.hypot(...v) > 1e-12, `${what} must be a non-zero vector`)
+  .transform(v => {
+    const n = Math.hypot(...v)
+    return [v[0] / n, v[1] / n, v[2] / n] as [number, number, number]
+  })
+
+const prior = z.discriminatedUnion('kind', [
+  z.object({ kind: z.literal('fixed'), value: z.number().positive() }),
+  z.object({ kind: z.literal('uniform'), min: z.number().positive(), max: z.number().positive() }).refine(p => p.max >= p.min, 'max must be ≥ min'),
+  z.object({ kind: z.literal('normal'), mean: z.number().positive(), std: z.number().nonnegative() }),
+])
+
+const spin = z.union([z.literal('synchronous'), z.literal('none'), vec3.refine(v => v.every(Number.isFinite), 'spin vector must be finite (rad s⁻¹)')])
+
+/**
+ * `POST /api/studies` body. SI units: metres, m s⁻¹, kg m⁻³, rad s⁻¹. Vectors are in lobe A's file
+ * axes. `direction` and `orbitNormal` are normalised here; `orientationB` is a Hamilton unit
+ * quaternion [w, x, y, z] (scalar first), the active rotation taking B's file axes into A's frame.
+ */
+export const studyInputSchema = z.object({
+  title: z.string().trim().max(160).optional(),
+  lobeA: z.number().int().positive(),
+  lobeB: z.number().int().positive(),
+  densityA: z.number().min(1).max(10_000).optional(),
+  densityB: z.number().min(1).max(10_000).optional(),
+  massModel: z.enum(['conserve-mass', 'keep-density']).default('conserve-mass'),
+  orientationB: z.tuple([z.number(), z.number(), z.number(), z.number()])
+    .refine(q => q.every(Number.isFinite) && Math.hypot(...q) > 1e-12, 'orientationB must be a non-zero quaternion [w, x, y, z]')
+    .transform((q) => {
+      const n = Math.hypot(...q)
+      return q.map(c => c / n) as [number, number, number, number]
+    })
+    .default([1, 0, 0, 0]),
+  direction: unit('direction'),
+  orbitNormal: unit('orbitNormal').optional(),
+  orbit: z.discriminatedUnion('kind', [
+    z.object({ kind: z.literal('bound'), semiMajorAxis: z.number().positive(), eccentricity: z.number().min(0).lt(1) }),
+    z.object({ kind: z.literal('parabolic'), pericentre: z.number().min(0).default(0) }),
+    z.object({ kind: z.literal('hyperbolic'), vInfinity: z.number().positive(), pericentre: z.number().min(0).default(0) }),
+  ]),
+  spinA: spin.default('synchronous'),
+  spinB: spin.default('synchronous'),
+  overlapDepth: z.number().min(0).default(0),
+  sweepSteps: z.number().int().min(0).max(24).default(4),
+  observedSpinPeriodHours: z.number().positive().optional(),
+  screen: z.object({
+    inclinationDeg: z.number().min(0).max(180),
+    heliocentricSemiMajorAxisAu: z.number().positive(),
+    heliocentricEccentricity: z.number().min(0).lt(1).default(0),
+    klPrefactor: z.number().positive().optional(),
+  }).optional(),
+  spread: z.object({
+    seed: z.number().int().min(0).max(2 ** 31 - 1),
+    samples: z.number().int().min(2).max(1000),
+    densityA: prior,
+    densityB: prior,
+    coneHalfAngleDeg: z.number().min(0).max(90),
+    scale: prior,
+    neck: z.boolean().default(true),
+  }).optional(),
+}).superRefine((v, ctx) => {
+  if (v.orbitNormal && Math.abs(v.orbitNormal[0] * v.direction[0] + v.orbitNormal[1] * v.direction[1] + v.orbitNormal[2] * v.direction[2]) > 1e-6) {
+    ctx.addIssue({ code: 'custom', path: ['orbitNormal'], message: 'orbitNormal must be perpendicular to direction' })
+  }
+})
+
+export type StudyInput = z.infer<typeof studyInputSchema>
+
+export const studyListQuerySchema = z.object({
+  lobe: z.coerce.number().int().positive().optional(),
+  pairA: z.coerce.number().int().positive().optional(),
+  pairB: z.coerce.number().int().positive().optional(),
+  limit: z.coerce.number().int().min(1).max(200).default(25),
+  offset: z.coerce.number().int().min(0).default(0),
+})
+
+export const AU_M = 149_597_870_700
