@@ -41,6 +41,8 @@ export interface QuantityDef {
    * as its spread, labelled as a range over the surface, not an uncertainty.
    */
   summary?: 'mean-with-range'
+  /** Entry of a study's `result.spread` summary ({ min, median, max, mean, std, n }) that belongs to this quantity. */
+  spreadKey?: string
   note?: string
 }
 
@@ -73,14 +75,16 @@ export const RECORD_QUANTITIES: readonly QuantityDef[] = [
   lobe('slopeDeg', 'Surface slope (mean over the surface)', 'deg', { path: ['surface', 'slopeDeg'], summary: 'mean-with-range' }),
 
   // Contact study: kinematics of the join (the two-lobe system).
-  study('contact.speed', 'Contact speed', 'm s⁻¹', 'whole-body'),
-  study('contact.escapeSpeed', 'Mutual escape speed at contact', 'm s⁻¹', 'whole-body'),
+  study('contact.speed', 'Contact speed', 'm s⁻¹', 'whole-body', { spreadKey: 'speed' }),
+  study('contact.escapeSpeed', 'Mutual escape speed at contact', 'm s⁻¹', 'whole-body', { spreadKey: 'escapeSpeed' }),
+  study('contact.speedFullShape', 'Contact speed with the full-shape attraction', 'm s⁻¹', 'whole-body'),
+  study('contact.escapeSpeedFullShape', 'Mutual escape speed with the full-shape attraction', 'm s⁻¹', 'whole-body'),
   study('contact.speedRatio', 'Contact speed / mutual escape speed', '1', 'whole-body'),
   study('contact.impactAngleFromNormalDeg', 'Impact angle from the contact normal', 'deg', 'whole-body'),
   study('contact.impactAngleFromTangentDeg', 'Impact angle from the tangent plane', 'deg', 'whole-body'),
   study('contact.normalSpeed', 'Speed along the contact normal', 'm s⁻¹', 'whole-body'),
   study('contact.massRatio', 'Mass ratio (smaller / larger)', '1', 'whole-body'),
-  study('neck.equivalentRadius', 'Neck equivalent radius', 'm', 'whole-body'),
+  study('neck.equivalentRadius', 'Neck equivalent radius', 'm', 'whole-body', { spreadKey: 'neckRadius' }),
   study('neck.area', 'Neck section area', 'm²', 'whole-body'),
   study('neck.overlapVolume', 'Overlap volume', 'm³', 'whole-body'),
   // Merged body.
@@ -88,9 +92,9 @@ export const RECORD_QUANTITIES: readonly QuantityDef[] = [
   study('merged.volume', 'Merged volume', 'm³', 'merged-body'),
   study('merged.density', 'Merged bulk density', 'kg m⁻³', 'merged-body'),
   study('merged.principalMoments', 'Merged principal moments of inertia', 'kg m²', 'merged-body', { shape: 'vector', components: ABC }),
-  study('merged.J2', 'Merged J2 (unnormalised)', '1', 'merged-body', { referenceRadiusPath: ['merged', 'referenceRadius'] }),
+  study('merged.J2', 'Merged J2 (unnormalised)', '1', 'merged-body', { referenceRadiusPath: ['merged', 'referenceRadius'], spreadKey: 'mergedJ2' }),
   study('merged.C22', 'Merged C22 (unnormalised)', '1', 'merged-body', { referenceRadiusPath: ['merged', 'referenceRadius'] }),
-  study('merged.spinPeriod', 'Inherited spin period', 's', 'merged-body'),
+  study('merged.spinPeriod', 'Inherited spin period', 's', 'merged-body', { spreadKey: 'spinPeriod' }),
   study('merged.relaxedSpinPeriod', 'Spin period after relaxing to the largest-moment axis', 's', 'merged-body'),
   study('merged.breakupSpinPeriod', 'Breakup spin period (strengthless sphere)', 's', 'merged-body'),
   study('merged.tumbleAngleDeg', 'Tumble angle', 'deg', 'merged-body'),
@@ -172,9 +176,17 @@ export function readQuantity(def: QuantityDef, source: unknown): ReadQuantity {
     value = raw
   }
   if (def.source === 'study') {
-    // A study's spread (e.g. over a density range) is keyed by the quantity: spread['merged.J2'] or spread.merged.J2.
-    const s = numericFieldsOf(quantityAt(source, ['spread', def.key])) ?? numericFieldsOf(quantityAt(source, ['spread', ...def.path]))
-    if (s) spread = { basis: 'study-spread', ...s }
+    // A study's spread summary (sampled inputs) has one entry per summarised quantity, plus how it was drawn.
+    const entry = (def.spreadKey ? numericFieldsOf(quantityAt(source, ['spread', def.spreadKey])) : null)
+      ?? numericFieldsOf(quantityAt(source, ['spread', def.key])) ?? numericFieldsOf(quantityAt(source, ['spread', ...def.path]))
+    if (entry) {
+      spread = { basis: 'study-spread', ...entry }
+      const root = quantityAt(source, ['spread']) as Record<string, unknown>
+      for (const k of ['samples', 'seed', 'priors']) {
+        const v = root[k]
+        if (isFiniteNumber(v) || typeof v === 'string') spread[k] = v
+      }
+    }
   }
   let referenceRadius: number | null = null
   if (def.referenceRadiusPath) {

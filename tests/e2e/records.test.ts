@@ -9,9 +9,14 @@ type Who = 'admin' | 'analyst' | 'reviewer' | 'viewer'
 /** Invented study result (test data, not physics): numbers chosen to expose any rounding. */
 const STUDY_RESULT = {
   contact: { speed: 0.1 + 0.2, escapeSpeed: 0.7071067811865476, speedRatio: (0.1 + 0.2) / 0.7071067811865476, impactAngleFromNormalDeg: 33.33333333333333 },
-  neck: { equivalentRadius: 212.12345678901234, area: 141_000.5 },
-  merged: { J2: 0.12345678901234568, C22: 0.045678901234567895, referenceRadius: 1234.5678901234567, spinPeriod: 36000.123456789, breakupSpinPeriod: 14_000.5 },
-  spread: { 'contact.speed': { min: 0.25, max: 0.35000000000000003, samples: 64 }, 'merged': { J2: { sd: 0.01 } } },
+  neck: { equivalentRadius: Math.PI * 67.5, area: 141_000.5 },
+  merged: { J2: 0.37 / 3, C22: Math.SQRT2 / 31, referenceRadius: 1234.5678901234567, spinPeriod: 36000.123456789, breakupSpinPeriod: 14_000.5 },
+  spread: {
+    seed: 7, samples: 64, contacts: 60, priors: 'density uniform 400–900 kg m⁻³',
+    speed: { min: 0.25, median: 0.3, max: 0.35000000000000003, mean: 0.3, std: 0.02, n: 60 },
+    mergedJ2: { min: 0.1, median: 0.12, max: 0.14, mean: 0.12, std: 0.01, n: 60 },
+    escapeSpeed: null, spinPeriod: null, neckRadius: null,
+  },
 }
 
 /** Minimal CSV reader for RFC 4180 text (quoted cells, doubled quotes). */
@@ -280,8 +285,8 @@ describe('object records: attach, review, supersede, export, mail', () => {
     const res = await as.analyst.post(`/api/objects/${recordId}/attachments`, { study: studyId, quantities: ['contact.speed', 'merged.J2', 'merged.spinPeriod'] })
     expect(res.status, res.text).toBe(201)
     const byKey = Object.fromEntries(res.json.items.map((a: any) => [a.quantityKey, a]))
-    expect(byKey['contact.speed']).toMatchObject({ value: 0.1 + 0.2, subject: 'whole-body', spread: { basis: 'study-spread', min: 0.25, max: 0.35000000000000003, samples: 64 } })
-    expect(byKey['merged.J2']).toMatchObject({ value: STUDY_RESULT.merged.J2, subject: 'merged-body', referenceRadius: STUDY_RESULT.merged.referenceRadius, spread: { basis: 'study-spread', sd: 0.01 } })
+    expect(byKey['contact.speed']).toMatchObject({ value: 0.1 + 0.2, subject: 'whole-body', spread: { basis: 'study-spread', min: 0.25, max: 0.35000000000000003, std: 0.02, n: 60, samples: 64, seed: 7, priors: 'density uniform 400–900 kg m⁻³' } })
+    expect(byKey['merged.J2']).toMatchObject({ value: STUDY_RESULT.merged.J2, subject: 'merged-body', referenceRadius: STUDY_RESULT.merged.referenceRadius, spread: { basis: 'study-spread', std: 0.01, n: 60 } })
     expect(byKey['merged.spinPeriod'].spread).toBeNull()
     expect(byKey['contact.speed'].provenance).toMatchObject({ source: 'study', study: { id: studyId, input: { approach: { speedAtInfinity: 0.1 } } }, lobeA: { sha256: lobeDense.sha256, densityKgM3: 1500 }, lobeB: { sha256: lobeOther.sha256 } })
     for (const a of res.json.items) expect((await as.reviewer.post(`/api/attachments/${a.id}/review`, { decision: 'accept' })).status).toBe(200)
@@ -303,6 +308,7 @@ describe('object records: attach, review, supersede, export, mail', () => {
     expect(speed[col('value')]).toBe('0.30000000000000004')
     expect(Number(speed[col('value')])).toBe(0.1 + 0.2)
     expect(Number(speed[col('spread_high')])).toBe(0.35000000000000003)
+    expect(Number(speed[col('spread_sd')])).toBe(0.02)
     const j2 = rows.find(r => r[col('quantity')] === 'merged.J2')!
     expect(Number(j2[col('value')])).toBe(STUDY_RESULT.merged.J2)
     expect(Number(j2[col('reference_radius_m')])).toBe(STUDY_RESULT.merged.referenceRadius)
@@ -318,7 +324,7 @@ describe('object records: attach, review, supersede, export, mail', () => {
     const txt = await as.viewer.get(`/api/objects/${recordId}/export.txt`)
     expect(txt.headers.get('content-type')).toMatch(/text\/plain/)
     expect(txt.text).toContain('2047 RZ3')
-    expect(txt.text).toContain('0.30000000000000004 m s⁻¹')
+    expect(txt.text).toContain('0.30000000000000004 m s⁻¹ ± 0.02 (study spread, 1σ)')
     expect(txt.text).toContain(lobeDense.sha256)
     expect(txt.text).toMatch(/Cautions:\n- Every value is a model estimate/)
   })
