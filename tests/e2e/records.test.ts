@@ -59,6 +59,8 @@ describe('object records: attach, review, supersede, export, mail', () => {
 
   beforeAll(async () => {
     server = await startServer({ ISTHMUS_DEMO: '1', ISTHMUS_FIELD_POINTS: '200' })
+    // The server writes while surface jobs run: wait for its locks instead of failing.
+    await server.sql().execute('PRAGMA busy_timeout = 10000')
     for (const who of ['admin', 'analyst', 'reviewer', 'viewer'] as const) {
       as[who] = new Agent(server.url)
       ids[who] = (await as[who].signIn(`${who}@example.org`, 'isthmus-demo')).id
@@ -373,6 +375,7 @@ describe('object records when mail cannot be sent', () => {
   beforeAll(async () => {
     // Outgoing mail to a closed port: every send fails.
     server = await startServer({ SMTP_URL: 'smtp://127.0.0.1:9' })
+    await server.sql().execute('PRAGMA busy_timeout = 10000')
     admin = new Agent(server.url)
     await admin.signIn('root@example.org', 'root-password-123')
   })
