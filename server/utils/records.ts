@@ -259,7 +259,7 @@ export async function mailRecipients(db: DB, opts: { kind: RecordMailKind, follo
   if (opts.roles) conditions.push(inArray(u.role, opts.roles as never[]))
   if (opts.userIds) conditions.push(inArray(u.id, opts.userIds.length ? opts.userIds : [-1]))
   if (opts.followersOf !== undefined) {
-    conditions.push(sql`exists (select 1 from ${schema.objectFollows} f where f.object_id = ${opts.followersOf} and f.user_id = ${u.id})`)
+    conditions.push(sql`exists (select 1 from object_follows f where f.object_id = ${opts.followersOf} and f.user_id = users.id)`)
   }
   return db.select({ id: u.id, email: u.email, name: u.name }).from(u).leftJoin(p, eq(p.userId, u.id)).where(and(...conditions))
 }

@@ -323,6 +323,14 @@ describe('object records: attach, review, supersede, export, mail', () => {
       expect(r[col('unit')]).toBe(v.unit)
     }
 
+    // The list's counts agree with the record.
+    const listed = (await as.viewer.get('/api/objects?q=2047%20RZ3')).json.items.find((r: any) => r.id === recordId)
+    expect(listed).toMatchObject({ acceptedCount: page.currentValues.length, proposedCount: page.attachments.filter((a: any) => a.state === 'proposed').length })
+    expect(listed.proposedCount).toBeGreaterThan(0)
+    const byProposed = (await as.viewer.get('/api/objects?sort=proposed&order=desc&limit=200')).json.items.map((r: any) => r.proposedCount)
+    expect(byProposed).toEqual([...byProposed].sort((a, b) => b - a))
+    expect(byProposed[0]).toBeGreaterThan(0)
+
     const txt = await as.viewer.get(`/api/objects/${recordId}/export.txt`)
     expect(txt.headers.get('content-type')).toMatch(/text\/plain/)
     expect(txt.text).toContain('2047 RZ3')

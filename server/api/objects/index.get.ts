@@ -15,14 +15,16 @@ export default defineEventHandler(async (event) => {
   const where: SQL[] = []
   if (query.q) {
     const like = `%${query.q.replace(/[\\%_]/g, c => `\\${c}`)}%`
-    where.push(sql`(${o.designation} like ${like} escape '\\' or ${o.name} like ${like} escape '\\' or exists (select 1 from ${schema.objectTags} t where t.object_id = ${o.id} and t.tag like ${like.toLowerCase()} escape '\\'))`)
+    where.push(sql`(${o.designation} like ${like} escape '\\' or ${o.name} like ${like} escape '\\' or exists (select 1 from object_tags t where t.object_id = objects.id and t.tag like ${like.toLowerCase()} escape '\\'))`)
   }
   if (query.population) where.push(eq(o.population, query.population))
-  if (query.tag) where.push(sql`exists (select 1 from ${schema.objectTags} t where t.object_id = ${o.id} and t.tag = ${query.tag})`)
+  if (query.tag) where.push(sql`exists (select 1 from object_tags t where t.object_id = objects.id and t.tag = ${query.tag})`)
   const filter = where.length ? and(...where) : undefined
 
-  const proposed = sql<number>`(select count(*) from ${schema.attachments} a where a.object_id = ${o.id} and a.state = 'proposed')`
-  const accepted = sql<number>`(select count(*) from ${schema.attachments} a where a.object_id = ${o.id} and a.state = 'accepted')`
+  // Written out in full: Drizzle leaves columns unqualified in a select list, where a bare "id"
+  // inside the subquery would bind to attachments.id.
+  const proposed = sql<number>`(select count(*) from attachments a where a.object_id = objects.id and a.state = 'proposed')`
+  const accepted = sql<number>`(select count(*) from attachments a where a.object_id = objects.id and a.state = 'accepted')`
   const columns: Record<typeof query.sort, SQL> = {
     designation: sql`${o.designation} collate nocase`,
     name: sql`${o.name} collate nocase`,

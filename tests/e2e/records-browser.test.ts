@@ -1,0 +1,98 @@
+import { afterAll, beforeAll, describe, expect, it } from 'vitest'
+import { boxMesh, writeObj } from '../../shared/geometry'
+import { openBrowser } from './support/browser'
+import { Agent } from './support/http'
+import { uploadLobe } from './support/lobes'
+import { startServer, type RunningServer } from './support/server'
+
+describe('in a real browser: create a record, attach from a lobe, review, read the record page', () => {
+  let server: RunningServer
+  let browser: Awaited<ReturnType<typeof openBrowser>>
+  const as = {} as Record<'analyst' | 'reviewer', Agent>
+  beforeAll(async () => {
+    server = await startServer({ ISTHMUS_DEMO: '1', ISTHMUS_FIELD_POINTS: '200' })
+    browser = await openBrowser()
+    for (const who of ['analyst', 'reviewer'] as const) {
+      as[who] = new Agent(server.url)
+      await as[who].signIn(`${who}@example.org`, 'isthmus-demo')
+    }
+  })
+  afterAll(async () => {
+    await browser?.close()
+    await server?.dispose()
+  })
+
+  async function signIn(email: string, next: string) {
+    await browser.context.clearCookies()
+    const page = await browser.context.newPage()
+    await page.goto(`${server.url}${next}`)
+    await page.waitForURL(/\/sign-in/)
+    await page.getByLabel('E-mail').fill(email)
+    await page.getByLabel('Password').fill('isthmus-demo')
+    await page.getByRole('button', { name: 'Sign in' }).click()
+    await page.waitForURL(new RegExp(next.replace(/[/?]/g, c => `\\${c}`)))
+    return page
+  }
+
+  it('validates the form in the page, creates the record, and shows the same values as the JSON export', async () => {
+    const page = await signIn('analyst@example.org', '/objects/new')
+    await page.getByLabel('Designation').fill('2052 BW7')
+    await page.getByLabel('Name used by the team').fill('Browser pair')
+    await page.getByLabel('Population').selectOption('near-earth')
+    await page.getByLabel(/Heliocentric orbit/).check()
+    await page.getByLabel('Semi-major axis a (au)').fill('1.7')
+    await page.getByLabel('Eccentricity e').fill('1.3')
+    await page.getByLabel('Inclination i (deg)').fill('12')
+    await page.getByRole('button', { name: 'Create record' }).click()
+    // The shared zod schema refuses e ≥ 1 before anything is sent.
+    await expect.poll(() => page.getByTestId('record-form').innerText()).toContain('Eccentricity must be below 1')
+    await page.getByLabel('Eccentricity e').fill('0.31')
+    await page.getByRole('button', { name: 'Create record' }).click()
+    await page.waitForURL(/\/objects\/\d+$/)
+    const id = Number(new URL(page.url()).pathname.split('/').pop())
+    await expect.poll(() => page.getByTestId('record-designation').innerText()).toContain('2052 BW7')
+
+    // Values: an uploaded lobe, attached through the API, one accepted by the reviewer.
+    const lobe = (await uploadLobe(as.analyst, writeObj(boxMesh(1.2, 0.9, 0.7)), 'brick.obj', { density: '2100', units: 'km' })).json
+    const attached = await as.analyst.post(`/api/objects/${id}/attachments`, { lobe: lobe.id, subject: 'whole-body', quantities: ['mass', 'J2', 'principalMoments'] })
+    expect(attached.status, attached.text).toBe(201)
+    for (const a of attached.json.items.slice(0, 2)) expect((await as.reviewer.post(`/api/attachments/${a.id}/review`, { decision: 'accept', comment: 'checked' })).status).toBe(200)
+
+    await page.reload()
+    const rows = page.getByTestId('current-values').locator('tbody tr')
+    await expect.poll(() => rows.count()).toBe(2)
+    const exported = (await as.analyst.get(`/api/objects/${id}/export.json`)).json
+    const shown = await rows.evaluateAll(trs => trs.map(tr => ({
+      key: tr.getAttribute('data-key'),
+      id: Number(tr.getAttribute('data-attachment')),
+      exact: tr.querySelector('[data-testid="value"]')?.getAttribute('title'),
+    })))
+    expect(shown).toEqual(exported.currentValues.map((v: any) => ({ key: v.quantityKey, id: v.id, exact: String(v.value) })))
+    await expect.poll(() => page.locator('main').innerText()).toContain('Awaiting review (1)')
+    await expect.poll(() => page.getByTestId('history').innerText()).toMatch(/accepted[\s\S]*by Noor Haddad/)
+    await page.screenshot({ path: 'test-results/record-page.png', fullPage: true }).catch(() => undefined)
+    await page.close()
+  })
+
+  it('lets a reviewer accept from the record page and a viewer see the list sorted and filtered', async () => {
+    const list = (await as.analyst.get('/api/objects?q=2052%20BW7')).json.items[0]
+    const page = await signIn('reviewer@example.org', `/objects/${list.id}`)
+    await expect.poll(() => page.locator('main').innerText()).toContain('Awaiting review (1)')
+    await page.getByRole('button', { name: 'Accept', exact: true }).click()
+    await expect.poll(() => page.getByTestId('current-values').locator('tbody tr').count()).toBe(3)
+    await page.getByRole('button', { name: 'Follow', exact: true }).click()
+    await expect.poll(() => page.getByTestId('follow-button').innerText()).toBe('Unfollow')
+
+    await page.goto(`${server.url}/objects`)
+    await page.getByLabel('Search designation, name or tag').fill('BW7')
+    await expect.poll(() => page.getByTestId('records-table').locator('tbody tr').count()).toBe(1)
+    await expect.poll(() => page.getByTestId('records-table').innerText()).toContain('2052 BW7')
+    await page.getByLabel('Search designation, name or tag').fill('')
+    await page.getByRole('button', { name: /Designation/ }).click()
+    await expect.poll(() => new URL(page.url()).searchParams.get('order')).toBe('desc')
+    const first = await page.getByTestId('records-table').locator('tbody tr td').first().innerText()
+    const desc = (await as.analyst.get('/api/objects?sort=designation&order=desc&limit=1')).json.items[0].designation
+    expect(first).toBe(desc)
+    await page.close()
+  })
+})
