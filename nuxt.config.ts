@@ -16,18 +16,12 @@ async function buildWorkers(outdir: string) {
     format: 'esm',
     target: 'node20',
     external: ['manifold-3d'],
-    banner: { js: "import { createRequire as __isthmusRequire } from 'node:module'; const require = __isthmusRequire(import.meta.url);" },
+    banner: { js: 'import { createRequire as __isthmusRequire } from \'node:module\'; const require = __isthmusRequire(import.meta.url);' },
     logLevel: 'warning',
   })
 }
 
 export default defineNuxtConfig({
-  hooks: {
-    // `nuxt dev` starts workers from .nuxt/workers.
-    async ready(nuxt) {
-      if (nuxt.options.dev) await buildWorkers(resolve(nuxt.options.buildDir, 'workers'))
-    },
-  },
   modules: ['@pinia/nuxt', '@nuxtjs/tailwindcss', 'nuxt-auth-utils'],
   devtools: { enabled: false },
   app: {
@@ -91,5 +85,11 @@ export default defineNuxtConfig({
     nodeTsConfig: { compilerOptions: { noUncheckedIndexedAccess: false } },
   },
   telemetry: false,
+  hooks: {
+    // `nuxt dev` starts workers from .nuxt/workers.
+    async ready(nuxt) {
+      if (nuxt.options.dev) await buildWorkers(resolve(nuxt.options.buildDir, 'workers'))
+    },
+  },
   tailwindcss: { configPath: 'tailwind.config.ts', cssPath: false },
 })

@@ -20,4 +20,3 @@ export async function displayBytes(mesh: TriMesh, budget: number): Promise<Uint8
   for (let i = 0; i < P.length; i++) f32[i] = P[i] - origin[i % 3]
   return encodeDisplayMesh({ origin, positions: f32, indices: simplified.indices })
 }
-

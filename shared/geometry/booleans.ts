@@ -166,4 +166,3 @@ export async function manifoldVolume(mesh: TriMesh): Promise<number> {
   }
   finally { m?.delete() }
 }
-

@@ -169,6 +169,7 @@ export class ContactBvhCache {
     else this.byMesh.set(mesh, bvh)
     return bvh
   }
+
   delete(key: string): void { this.byKey.delete(key) }
   clear(): void { this.byKey.clear() }
 }
@@ -427,6 +428,7 @@ class PairHeap extends PairStack {
       i = p
     }
   }
+
   /** Pops the minimum into `popped` = [a, b] and returns its key. */
   pop(popped: Int32Array): number {
     const { a, b, key } = this
@@ -852,4 +854,3 @@ export function applyPose(mesh: TriMesh, pose: Pose): TriMesh {
 export function meshInContactFrame(meshA: TriMesh, centroidA: Vec3): TriMesh {
   return applyPose(meshA, { quaternion: [1, 0, 0, 0], translation: scale(centroidA, -1) })
 }
-

@@ -19,11 +19,11 @@ import type { LobeSpin, MassModel, MergedBody } from './merged'
 import { pathwayScreen } from './screen'
 import type { PathwayScreen, ScreenInput } from './screen'
 import { createSpreadContext, runSpread } from './spread'
-import type { SpreadSpec, SpreadSummary } from './spread'
+import type { SpreadSample, SpreadSpec, SpreadSummary } from './spread'
 import { mergeMeshes } from './generate'
-import { dot, normalize, scale } from './quat'
+import { dot } from './quat'
 
-export const CONTACT_ALGORITHM_VERSION = 'contact-1.0.0'
+export const CONTACT_ALGORITHM_VERSION = 'contact-1.0.1'
 
 export interface ContactStudyInput {
   meshA: TriMesh
@@ -85,7 +85,7 @@ export interface ContactStudyResult {
   merged: MergedBody | null
   sweep: { overlapDepth: number, equivalentRadius: number, area: number, overlapVolume: number }[] | null
   screen: PathwayScreen | null
-  spread: SpreadSummary | null
+  spread: (SpreadSummary & { sampleValues?: SpreadSample[] }) | null
   massModel: MassModel
   algorithmVersion: string
   /** The merged body's mesh in the contact frame (the manifold union, or both lobes at overlap 0). */
@@ -146,14 +146,16 @@ export async function runContactStudy(input: ContactStudyInput, opts: StudyOptio
   const steps = input.sweepSteps ?? 4
   const sweep = steps > 0 ? await neckSweep(neckInput, steps, smaller / 4, { tilt: false, signal: opts.signal }) : null
   check()
-  let spread: SpreadSummary | null = null
+  let spread: (SpreadSummary & { sampleValues?: SpreadSample[] }) | null = null
   if (input.spread) {
     report(0.85, 'spread')
     const ctx = createSpreadContext({
       meshA: input.meshA, meshB: input.meshB, orientationB: fc.poseB.quaternion, direction: fc.direction, orbit: input.orbit, orbitNormal: input.orbitNormal,
       overlapDepth: depth, massModel: input.massModel, spinA: input.spinA, spinB: input.spinB, spec: input.spread, cache,
     })
-    spread = (await runSpread(ctx, opts.signal, n => report(0.85 + 0.15 * n / input.spread!.samples, 'spread'))).summary
+    const run = await runSpread(ctx, opts.signal, n => report(0.85 + 0.15 * n / input.spread!.samples, 'spread'))
+    // Per-sample values travel with the summary, for plots and re-analysis.
+    spread = { ...run.summary, sampleValues: run.samples }
   }
   report(1, 'done')
   const { contact: _c, ...k } = kin
@@ -189,4 +191,3 @@ export async function runContactStudy(input: ContactStudyInput, opts: StudyOptio
     unionMesh: union,
   }
 }
-

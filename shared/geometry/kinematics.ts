@@ -17,10 +17,10 @@ import { G } from './mass'
 export { G }
 
 /** Relative orbit of B about A before contact. Pericentre default 0 (head-on). */
-export type RelativeOrbit =
-  | { kind: 'bound', semiMajorAxis: number, eccentricity: number }
-  | { kind: 'parabolic', pericentre?: number }
-  | { kind: 'hyperbolic', vInfinity: number, pericentre?: number }
+export type RelativeOrbit
+  = | { kind: 'bound', semiMajorAxis: number, eccentricity: number }
+    | { kind: 'parabolic', pericentre?: number }
+    | { kind: 'hyperbolic', vInfinity: number, pericentre?: number }
 
 export interface KinematicsInput {
   /** Lobe masses, kg. */

@@ -178,4 +178,3 @@ export function mergedBody(input: MergedInput): MergedBody {
       + '); angular momentum about the two-lobe barycentre, spin about the union centroid; no energy dissipation or mass loss modelled.',
   }
 }
-

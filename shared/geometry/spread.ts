@@ -16,7 +16,7 @@ import { createRng } from './rng'
 import type { Rng } from './rng'
 import { massProperties, withDensity } from './mass'
 import type { MassProperties } from './mass'
-import { ContactBvhCache, firstContact, meshInContactFrame } from './contact'
+import { ContactBvhCache, firstContact, meshInContactFrame, applyPose } from './contact'
 import { contactKinematics } from './kinematics'
 import type { RelativeOrbit } from './kinematics'
 import { neckAtDepth } from './neck'
@@ -24,7 +24,6 @@ import { mergedBody } from './merged'
 import type { LobeSpin, MassModel } from './merged'
 import { anyPerpendicular, cross, normalize, scale, add } from './quat'
 import { mergeMeshes } from './generate'
-import { applyPose } from './contact'
 
 export type Prior = { kind: 'fixed', value: number } | { kind: 'uniform', min: number, max: number } | { kind: 'normal', mean: number, std: number }
 

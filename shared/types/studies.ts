@@ -2,7 +2,7 @@ import { z } from 'zod'
 
 const vec3 = z.tuple([z.number(), z.number(), z.number()])
 const unit = (what: string) => vec3.refine(v => v.every(Number.isFinite) && Math.hypot(...v) > 1e-12, `${what} must be a non-zero vector`)
-  .transform(v => {
+  .transform((v) => {
     const n = Math.hypot(...v)
     return [v[0] / n, v[1] / n, v[2] / n] as [number, number, number]
   })
@@ -22,8 +22,8 @@ const spin = z.union([z.literal('synchronous'), z.literal('none'), vec3.refine(v
  */
 export const studyInputSchema = z.object({
   title: z.string().trim().max(160).optional(),
-  lobeA: z.number().int().positive(),
-  lobeB: z.number().int().positive(),
+  lobeA: z.number({ message: 'Choose lobe A' }).int().positive(),
+  lobeB: z.number({ message: 'Choose lobe B' }).int().positive(),
   densityA: z.number().min(1).max(10_000).optional(),
   densityB: z.number().min(1).max(10_000).optional(),
   massModel: z.enum(['conserve-mass', 'keep-density']).default('conserve-mass'),

@@ -4,7 +4,7 @@ import type { Agent } from './http'
 export function uploadLobe(agent: Agent, bytes: Uint8Array, name: string, fields: Record<string, string>) {
   const form = new FormData()
   for (const [k, v] of Object.entries(fields)) form.set(k, v)
-  form.set('file', new Blob([bytes]), name)
+  form.set('file', new Blob([bytes as Uint8Array<ArrayBuffer>]), name)
   return agent.post('/api/lobes', form)
 }
 
