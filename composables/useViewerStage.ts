@@ -8,6 +8,8 @@ export interface ViewerView {
   label: string
   title: string
   dir: V3
+  /** Screen-up for this view (scene frame, unit, perpendicular to dir); default: keep the current up. */
+  up?: V3
 }
 
 /** Settings the frame's controls change and the stage reads each frame. */
@@ -26,7 +28,7 @@ export interface StageSettings {
 export interface StageApi {
   reset: () => void
   fit: () => void
-  viewAlong: (dir: V3) => void
+  viewAlong: (dir: V3, up?: V3) => void
   /** Turns the view about the screen's vertical (yaw) and horizontal (pitch) axes, radians. */
   turn: (yaw: number, pitch: number) => void
   /** factor > 1 zooms in. */

@@ -10,7 +10,7 @@ import { startServer, type RunningServer } from './support/server'
 const G = 6.67430e-11 // CODATA 2018
 const BACKGROUND = [0x0e, 0x10, 0x14] // basalt-950, the viewer's clear colour
 
-interface Analysis { width: number, height: number, body: number, blue: number, orange: number, grey: number, blueX: number }
+interface Analysis { width: number, height: number, body: number, blue: number, orange: number, grey: number, blueX: number, blueY: number, orangeX: number }
 
 /**
  * Pixel statistics of a PNG, decoded in the page (no PNG package needed): pixels differing from the
@@ -24,7 +24,7 @@ async function analyse(page: Page, png: Buffer): Promise<Analysis> {
     const g = c.getContext('2d')!
     g.drawImage(img, 0, 0)
     const d = g.getImageData(0, 0, img.width, img.height).data
-    let body = 0, blue = 0, orange = 0, grey = 0, blueX = 0
+    let body = 0, blue = 0, orange = 0, grey = 0, blueX = 0, blueY = 0, orangeX = 0
     for (let i = 0; i < d.length; i += 4) {
       const r = d[i], gr = d[i + 1], b = d[i + 2]
       if (Math.max(Math.abs(r - bg[0]), Math.abs(gr - bg[1]), Math.abs(b - bg[2])) <= 24) continue
@@ -32,11 +32,15 @@ async function analyse(page: Page, png: Buffer): Promise<Analysis> {
       if (b > r + 20) {
         blue++
         blueX += (i / 4) % img.width
+        blueY += Math.floor(i / 4 / img.width)
       }
-      else if (r > b + 20) orange++
+      else if (r > b + 20) {
+        orange++
+        orangeX += (i / 4) % img.width
+      }
       else grey++
     }
-    return { width: img.width, height: img.height, body, blue, orange, grey, blueX: blue ? blueX / blue : 0 }
+    return { width: img.width, height: img.height, body, blue, orange, grey, blueX: blue ? blueX / blue : 0, blueY: blue ? blueY / blue : 0, orangeX: orange ? orangeX / orange : 0 }
   }, { b64: png.toString('base64'), bg: BACKGROUND })
 }
 
@@ -241,6 +245,8 @@ describe('the 3D views in a real browser (software WebGL)', () => {
     const lobesView = await analyse(page, await canvas.screenshot({ path: 'test-results/viewer-joined.png' }))
     expect(lobesView.body / expected).toBeGreaterThan(0.95)
     expect(lobesView.body / expected).toBeLessThan(1.05)
+    // The view puts the line of centres left to right: B (sky blue) right of A (orange).
+    expect(lobesView.blueX).toBeGreaterThan(lobesView.orangeX)
     // Colour-coded: B's sky-blue disc is (R_B/R_A)² of A's orange one.
     expect(lobesView.blue / lobesView.orange).toBeGreaterThan(0.3)
     expect(lobesView.blue / lobesView.orange).toBeLessThan(0.45)
@@ -269,7 +275,8 @@ describe('the 3D views in a real browser (software WebGL)', () => {
     await page.getByLabel(/^Approach/).fill('0.2')
     await settled(page, n)
     const apart = await analyse(page, await canvas.screenshot())
-    const shiftPx = Math.abs(apart.blueX - again.blueX)
+    const shiftPx = Math.hypot(apart.blueX - again.blueX, apart.blueY - again.blueY)
+    expect(Math.abs(apart.blueY - again.blueY)).toBeLessThan(3)
     // 0.2 × 2 (R_A + R_B) = 640 m, seen at wpp metres per pixel (the view's scale does not change).
     expect(Number(await canvas.getAttribute('data-world-per-pixel'))).toBe(wpp)
     expect(shiftPx * wpp / 640).toBeCloseTo(1, 1)
