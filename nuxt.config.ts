@@ -46,6 +46,7 @@ export default defineNuxtConfig({
   build: { transpile: [/@tresjs/] },
   compatibilityDate: '2026-11-01',
   nitro: {
+    serverAssets: [{ baseName: 'openapi', dir: 'openapi' }],
     typescript: { tsConfig: { compilerOptions: { noUncheckedIndexedAccess: false } } },
     // manifold-3d loads its .wasm next to its own file: keep it a real package in .output.
     externals: { external: ['manifold-3d'], traceInclude: ['manifold.js', 'manifold.wasm'].map(f => resolve('node_modules/manifold-3d', f)) },

@@ -9,6 +9,7 @@ interface AnalyseResult {
   triangulatedPolygons: number
   properties: Record<string, unknown>
   report: Record<string, unknown> & { warnings: { code: string, message: string }[], vertexCount: number, faceCount: number }
+  timings: Record<string, number>
 }
 
 export interface IngestInput {
@@ -37,7 +38,7 @@ export async function ingestLobe(input: IngestInput) {
   try {
     analysed = await useWorkerPool().run<AnalyseResult>('analyse', {
       filePath: input.filePath, units: input.units, density: input.density, referenceRadius: input.referenceRadius,
-      analysisMeshPath: derived.analysis, displayMeshPath: derived.display, displayFaceBudget: DISPLAY_FACE_BUDGET, maxFaces: 20_000_000,
+      analysisMeshPath: derived.analysis, maxFaces: 20_000_000,
     }, { priority: 10 })
   }
   catch (error) {
@@ -67,10 +68,12 @@ export async function ingestLobe(input: IngestInput) {
     vertexCount: analysed.report.vertexCount,
     faceCount: analysed.report.faceCount,
     warnings: analysed.report.warnings,
-    report: { ...analysed.report, sourceFaceCount: analysed.sourceFaceCount, triangulatedPolygons: analysed.triangulatedPolygons },
+    report: { ...analysed.report, sourceFaceCount: analysed.sourceFaceCount, triangulatedPolygons: analysed.triangulatedPolygons, timingsMs: analysed.timings },
     properties: analysed.properties,
     algorithmVersion: ALGORITHM_VERSION,
   }).returning()
+  // The display copy is prepared in the background: the answer does not wait for it.
+  void ensureDisplayMesh(input.sha256, input.units).catch(error => console.error('[isthmus] display mesh failed:', error))
   const job = await startSurfaceJob(db, lobe!)
   return { lobe: lobe!, job }
 }

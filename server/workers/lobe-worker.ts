@@ -16,11 +16,18 @@ export interface AnalysePayload {
   units: 'm' | 'km'
   density: number
   referenceRadius?: number
-  /** Where to write the validated mesh (metres, float64) and the display copy. */
+  /** Where to write the validated mesh (metres, float64). */
   analysisMeshPath: string
-  displayMeshPath: string
-  displayFaceBudget: number
   maxFaces: number
+}
+
+export interface DisplayPayload { analysisMeshPath: string, displayMeshPath: string, displayFaceBudget: number }
+
+/** The simplified float32 copy for the browser (meshoptimizer), written next to the analysis mesh. */
+async function display(p: DisplayPayload) {
+  const { mesh } = await loadMesh(p.analysisMeshPath)
+  await writeAtomic(p.displayMeshPath, await displayBytes(mesh, p.displayFaceBudget))
+  return { ok: true }
 }
 
 export interface FieldPreparePayload { analysisMeshPath: string, maxPoints: number }
@@ -35,21 +42,23 @@ export interface FieldChunkPayload {
 const port = parentPort!
 
 async function analyse(p: AnalysePayload, progress: (f: number, stage: string) => void) {
+  const t0 = performance.now()
   progress(0.05, 'reading')
   const bytes = new Uint8Array(await readFile(p.filePath))
   const read = readMesh(bytes, { maxFaces: p.maxFaces })
+  const t1 = performance.now()
   if (p.units === 'km') {
     const P = read.mesh.positions
     for (let i = 0; i < P.length; i++) P[i] *= 1000
   }
   progress(0.35, 'validating')
   const { mesh, report } = validateMesh(read.mesh)
+  const t2 = performance.now()
   progress(0.6, 'mass properties')
   const properties = massProperties(mesh, { density: p.density, referenceRadius: p.referenceRadius })
-  progress(0.75, 'storing')
+  const t3 = performance.now()
+  progress(0.85, 'storing')
   await writeAtomic(p.analysisMeshPath, encodeAnalysisMesh(mesh.positions, mesh.indices))
-  progress(0.85, 'display copy')
-  await writeAtomic(p.displayMeshPath, await displayBytes(mesh, p.displayFaceBudget))
   const { faceOrigin: _faceOrigin, ...reportOut } = report
   return {
     format: read.format,
@@ -57,6 +66,8 @@ async function analyse(p: AnalysePayload, progress: (f: number, stage: string) =
     triangulatedPolygons: read.triangulatedPolygons,
     properties,
     report: reportOut,
+    /** Worker time per stage, ms (for benchmarks and the server log). */
+    timings: { read: t1 - t0, validate: t2 - t1, mass: t3 - t2, store: performance.now() - t3 },
   }
 }
 
@@ -92,6 +103,7 @@ async function fieldChunk(p: FieldChunkPayload, progress: (f: number, stage: str
 
 const tasks: Record<string, (payload: any, progress: (f: number, stage: string) => void) => Promise<unknown>> = {
   'analyse': analyse,
+  'display': display,
   'field-prepare': fieldPrepare,
   'field-chunk': fieldChunk,
   ...extraTasks,

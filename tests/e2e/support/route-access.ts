@@ -10,6 +10,7 @@ export type Access = 'public' | 'viewer' | 'reviewer' | 'analyst' | 'admin'
 
 export const ROUTE_ACCESS: Record<string, Access> = {
   'GET /api/health': 'public',
+  'GET /api/openapi.json': 'public',
   'POST /api/session': 'public',
   'GET /api/session': 'public',
   'DELETE /api/session': 'public',
