@@ -254,7 +254,7 @@ export const attachments = sqliteTable('attachments', {
   index('attachments_object_group_idx').on(t.objectId, t.supersedeGroup, t.state),
   // At most one current (accepted) value per record and group, enforced by the database.
   uniqueIndex('attachments_current_unique').on(t.objectId, t.supersedeGroup).where(sql`${t.state} = 'accepted'`),
-  index('attachments_state_idx').on(t.state, t.proposedAt),
+  index('attachments_state_object_idx').on(t.state, t.objectId),
   index('attachments_lobe_idx').on(t.lobeId),
   index('attachments_study_idx').on(t.studyId),
   index('attachments_proposer_idx').on(t.proposedBy),

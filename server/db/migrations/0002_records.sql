@@ -42,7 +42,7 @@ CREATE TABLE `attachments` (
 CREATE INDEX `attachments_object_state_idx` ON `attachments` (`object_id`,`state`);--> statement-breakpoint
 CREATE INDEX `attachments_object_group_idx` ON `attachments` (`object_id`,`supersede_group`,`state`);--> statement-breakpoint
 CREATE UNIQUE INDEX `attachments_current_unique` ON `attachments` (`object_id`,`supersede_group`) WHERE "attachments"."state" = 'accepted';--> statement-breakpoint
-CREATE INDEX `attachments_state_idx` ON `attachments` (`state`,`proposed_at`);--> statement-breakpoint
+CREATE INDEX `attachments_state_object_idx` ON `attachments` (`state`,`object_id`);--> statement-breakpoint
 CREATE INDEX `attachments_lobe_idx` ON `attachments` (`lobe_id`);--> statement-breakpoint
 CREATE INDEX `attachments_study_idx` ON `attachments` (`study_id`);--> statement-breakpoint
 CREATE INDEX `attachments_proposer_idx` ON `attachments` (`proposed_by`);--> statement-breakpoint
