@@ -5,6 +5,7 @@ import type { StudyInput } from '../../shared/types/studies'
 import { AU_M } from '../../shared/types/studies'
 import type { MassProperties } from '../../shared/geometry'
 import { CONTACT_ALGORITHM_VERSION } from '../../shared/geometry/contactStudy'
+import { summariseSpread, type SpreadSample } from '../../shared/geometry/spread'
 import { ALGORITHM_VERSION } from '../../shared/utils/version'
 
 export const STUDY_ALGORITHM_VERSION = `${ALGORITHM_VERSION}; ${CONTACT_ALGORITHM_VERSION}`
@@ -64,6 +65,12 @@ async function runStudy(db: DB, study: Study, a: Lobe, b: Lobe) {
   controllers.set(study.id, ctl)
   const input = study.input as unknown as StudyInput & { densityA: number, densityB: number }
   let last = 0
+  const report = (progress: number, stage: string) => {
+    const now = Date.now()
+    if (now - last < 200) return
+    last = now
+    void db.update(schema.studies).set({ progress, stage }).where(and(eq(schema.studies.id, study.id), eq(schema.studies.status, 'running')))
+  }
   try {
     await db.update(schema.studies).set({ status: 'running', startedAt: new Date(), stage: 'waiting for a worker' }).where(eq(schema.studies.id, study.id))
     const propsA = a.properties as unknown as MassProperties
@@ -93,17 +100,17 @@ async function runStudy(db: DB, study: Study, a: Lobe, b: Lobe) {
         screen: input.screen && orbitA !== undefined && input.orbit.kind === 'bound'
           ? { semiMajorAxis: orbitA, eccentricity: input.orbit.eccentricity, inclinationDeg: input.screen.inclinationDeg, heliocentricSemiMajorAxis: input.screen.heliocentricSemiMajorAxisAu * AU_M, heliocentricEccentricity: input.screen.heliocentricEccentricity, klPrefactor: input.screen.klPrefactor }
           : undefined,
-        spread: input.spread,
+        // The spread runs below in chunks on every worker, not inside this one task.
+        spread: undefined,
       },
     }, {
       signal: ctl.signal,
-      onProgress: (progress, stage) => {
-        const now = Date.now()
-        if (now - last < 200) return
-        last = now
-        void db.update(schema.studies).set({ progress, stage }).where(and(eq(schema.studies.id, study.id), eq(schema.studies.status, 'running')))
-      },
+      onProgress: (progress, stage) => report(progress * (input.spread ? 0.6 : 1), stage),
     })
+    const contact = result.contact as { contact?: false, poseB?: { quaternion: [number, number, number, number] }, direction?: [number, number, number] }
+    if (input.spread && contact.contact !== false && contact.poseB) {
+      result.spread = await runSpreadChunks(study, a, b, input, contact.poseB.quaternion, ctl.signal, (f, stage) => report(0.6 + 0.4 * f, stage))
+    }
     await db.update(schema.studies).set({ status: 'done', progress: 1, stage: 'done', result, finishedAt: new Date() })
       .where(and(eq(schema.studies.id, study.id), eq(schema.studies.status, 'running')))
   }
@@ -116,6 +123,42 @@ async function runStudy(db: DB, study: Study, a: Lobe, b: Lobe) {
   finally {
     controllers.delete(study.id)
   }
+}
+
+/** Runs the spread's samples in chunks on every worker and summarises them (seeded per sample index, so chunking changes nothing). */
+async function runSpreadChunks(study: Study, a: Lobe, b: Lobe, input: StudyInput & { densityA: number, densityB: number }, orientationB: [number, number, number, number],
+  signal: AbortSignal, onProgress: (fraction: number, stage: string) => void) {
+  const spec = input.spread!
+  const propsA = a.properties as unknown as MassProperties
+  const context = {
+    orientationB,
+    direction: input.direction,
+    orbit: input.orbit,
+    orbitNormal: input.orbitNormal ?? defaultOrbitNormal(propsA.principalAxes[2], input.direction),
+    overlapDepth: input.overlapDepth,
+    massModel: input.massModel,
+    spinA: input.spinA,
+    spinB: input.spinB,
+    spec,
+  }
+  const chunk = Math.max(1, Math.ceil(spec.samples / 16))
+  const done = new Float64Array(Math.ceil(spec.samples / chunk))
+  const parts = await Promise.all(Array.from({ length: done.length }, (_, c) => useWorkerPool().run<SpreadSample[]>('spread-chunk', {
+    meshPathA: derivedMeshPaths(a.sha256, a.units).analysis,
+    meshPathB: derivedMeshPaths(b.sha256, b.units).analysis,
+    context,
+    contextKey: study.cacheKey,
+    start: c * chunk,
+    end: Math.min(spec.samples, (c + 1) * chunk),
+  }, {
+    signal,
+    onProgress: (f) => {
+      done[c] = f * (Math.min(spec.samples, (c + 1) * chunk) - c * chunk)
+      onProgress(done.reduce((x, y) => x + y, 0) / spec.samples, 'spread')
+    },
+  })))
+  const samples = parts.flat()
+  return { ...summariseSpread(spec, samples), sampleValues: samples }
 }
 
 /** The default plane of relative motion: A's largest-moment axis made perpendicular to the line of centres. */

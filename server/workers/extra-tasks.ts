@@ -3,6 +3,7 @@ import type { TriMesh, Vec3 } from '../../shared/geometry'
 import { runContactStudy, type ContactStudyInput } from '../../shared/geometry/contactStudy'
 import { ContactBvhCache } from '../../shared/geometry/contact'
 import { splitAtNeck } from '../../shared/geometry/split'
+import { createSpreadContext, runSpreadSample, type SpreadContext } from '../../shared/geometry/spread'
 import { decodeAnalysisMesh, encodeAnalysisMesh } from '../../shared/utils/mesh-binary'
 import { displayBytes, writeAtomic } from './worker-io'
 
@@ -43,6 +44,32 @@ async function study(p: StudyPayload, progress: Progress) {
   return { ...result, unionStored: !!unionMesh }
 }
 
+export interface SpreadChunkPayload {
+  meshPathA: string
+  meshPathB: string
+  /** Everything of the spread context but the meshes (which the worker loads and caches). */
+  context: Omit<SpreadContext, 'meshA' | 'meshB' | 'unitA' | 'unitB' | 'cache'>
+  contextKey: string
+  start: number
+  end: number
+}
+
+let spreadContext: { key: string, ctx: SpreadContext } | undefined
+
+/** Samples [start, end) of a spread; the server spreads chunks over every worker. */
+async function spreadChunk(p: SpreadChunkPayload, progress: Progress) {
+  if (spreadContext?.key !== p.contextKey) {
+    const [meshA, meshB] = await Promise.all([loadAnalysisMesh(p.meshPathA), loadAnalysisMesh(p.meshPathB)])
+    spreadContext = { key: p.contextKey, ctx: createSpreadContext({ ...p.context, meshA, meshB, cache: bvhCache }) }
+  }
+  const samples = []
+  for (let i = p.start; i < p.end; i++) {
+    samples.push(await runSpreadSample(spreadContext.ctx, i))
+    progress((i + 1 - p.start) / (p.end - p.start), 'spread')
+  }
+  return samples
+}
+
 export interface SplitPayload {
   meshPath: string
   plane?: { point: Vec3, normal: Vec3 }
@@ -60,4 +87,4 @@ async function split(p: SplitPayload, progress: Progress) {
 }
 
 /** Further worker tasks: contact studies and splitting a whole-body mesh at its neck. */
-export const extraTasks: Record<string, (payload: any, progress: Progress) => Promise<unknown>> = { study, split }
+export const extraTasks: Record<string, (payload: any, progress: Progress) => Promise<unknown>> = { 'study': study, 'split': split, 'spread-chunk': spreadChunk }

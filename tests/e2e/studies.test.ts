@@ -56,6 +56,20 @@ describe('contact studies through the API', () => {
     expect(list.json.items[0].id).toBe(again.json.id)
   })
 
+  it('runs a spread in chunks on the workers: with fixed priors and no cone every sample equals the nominal study; densities scale speeds as √ρ', async () => {
+    const base = { lobeA: a.id, lobeB: b.id, direction: [0, 1, 1], orbit: { kind: 'parabolic' }, sweepSteps: 0 }
+    const fixed = (v: number) => ({ kind: 'fixed', value: v })
+    const nominal = await waitForStudy(as.viewer, (await as.analyst.post('/api/studies', base)).json.id)
+    const spread = await waitForStudy(as.viewer, (await as.analyst.post('/api/studies', { ...base, spread: { seed: 3, samples: 12, densityA: fixed(4000), densityB: fixed(4000), coneHalfAngleDeg: 0, scale: fixed(1), neck: false } })).json.id)
+    expect(spread.status, spread.error).toBe('done')
+    expect(spread.result.spread.samples).toBe(12)
+    expect(spread.result.spread.sampleValues).toHaveLength(12)
+    expect(spread.result.spread.sampleValues.map((s: { index: number }) => s.index)).toEqual([...Array(12).keys()])
+    // Common density ×4 → speeds ×2 (v ∝ √ρ at fixed geometry; SCIENCE.md §5 vis-viva).
+    expect(spread.result.spread.speed.min / nominal.result.contact.speed).toBeCloseTo(2, 9)
+    expect(spread.result.spread.speed.max / nominal.result.contact.speed).toBeCloseTo(2, 9)
+  })
+
   it('reports "no contact" when the pericentre lies outside the contact separation', async () => {
     const res = await as.analyst.post('/api/studies', { lobeA: a.id, lobeB: b.id, direction: [0, 1, 0], orbit: { kind: 'bound', semiMajorAxis: 50, eccentricity: 0.1 } })
     const done = await waitForStudy(as.viewer, res.json.id)
