@@ -86,7 +86,7 @@ export async function startServer(env: Record<string, string> = {}): Promise<Run
     dataDir,
     env: fullEnv,
     log: () => output,
-    sql: () => (client ??= createClient({ url: fullEnv.DATABASE_URL! })),
+    sql: () => (client ??= createClient({ url: fullEnv.DATABASE_URL!, timeout: 10_000 })),
     stop,
     restart: async () => {
       await stop()
