@@ -88,13 +88,7 @@ async function runStudy(db: DB, study: Study, a: Lobe, b: Lobe) {
         densityA: input.densityA,
         densityB: input.densityB,
         orientationB: input.orientationB,
-        direction: input.direction,
-        orbit: input.orbit,
-        orbitNormal: input.orbitNormal ?? defaultOrbitNormal(propsA.principalAxes[2], input.direction),
-        overlapDepth: input.overlapDepth,
-        massModel: input.massModel,
-        spinA: input.spinA,
-        spinB: input.spinB,
+        ...approachOf(input, propsA),
         observedSpinPeriod: input.observedSpinPeriodHours ? input.observedSpinPeriodHours * 3600 : undefined,
         sweepSteps: input.sweepSteps,
         screen: input.screen && orbitA !== undefined && input.orbit.kind === 'bound'
@@ -125,13 +119,9 @@ async function runStudy(db: DB, study: Study, a: Lobe, b: Lobe) {
   }
 }
 
-/** Runs the spread's samples in chunks on every worker and summarises them (seeded per sample index, so chunking changes nothing). */
-async function runSpreadChunks(study: Study, a: Lobe, b: Lobe, input: StudyInput & { densityA: number, densityB: number }, orientationB: [number, number, number, number],
-  signal: AbortSignal, onProgress: (fraction: number, stage: string) => void) {
-  const spec = input.spread!
-  const propsA = a.properties as unknown as MassProperties
-  const context = {
-    orientationB,
+/** The approach and body settings shared by the study and its spread (orbit normal defaulted). */
+function approachOf(input: StudyInput, propsA: MassProperties) {
+  return {
     direction: input.direction,
     orbit: input.orbit,
     orbitNormal: input.orbitNormal ?? defaultOrbitNormal(propsA.principalAxes[2], input.direction),
@@ -139,8 +129,14 @@ async function runSpreadChunks(study: Study, a: Lobe, b: Lobe, input: StudyInput
     massModel: input.massModel,
     spinA: input.spinA,
     spinB: input.spinB,
-    spec,
   }
+}
+
+/** Runs the spread's samples in chunks on every worker and summarises them (seeded per sample index, so chunking changes nothing). */
+async function runSpreadChunks(study: Study, a: Lobe, b: Lobe, input: StudyInput & { densityA: number, densityB: number }, orientationB: [number, number, number, number],
+  signal: AbortSignal, onProgress: (fraction: number, stage: string) => void) {
+  const spec = input.spread!
+  const context = { orientationB, ...approachOf(input, a.properties as unknown as MassProperties), spec }
   const chunk = Math.max(1, Math.ceil(spec.samples / 16))
   const done = new Float64Array(Math.ceil(spec.samples / chunk))
   const parts = await Promise.all(Array.from({ length: done.length }, (_, c) => useWorkerPool().run<SpreadSample[]>('spread-chunk', {

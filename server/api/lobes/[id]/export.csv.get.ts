@@ -1,14 +1,10 @@
-import { eq } from 'drizzle-orm'
 import { idParamSchema } from '#shared/types/account'
 
 /** The lobe's property table as CSV: quantity, value, unit (one row per component). */
 export default defineEventHandler(async (event) => {
   await requireRole(event, 'viewer')
   const { id } = paramsAs(event, idParamSchema)
-  const db = useDB()
-  const lobe = await db.select().from(schema.lobes).where(eq(schema.lobes.id, id)).get()
-  if (!lobe) throw notFound('Lobe')
-  const view = lobeView(lobe, (await latestJobs(db, [id])).get(id))
+  const { view } = await loadLobeView(useDB(), id)
   const props = view.properties as Record<string, unknown>
   const lines = [['quantity', 'value', 'unit', 'lobe', 'sha256', 'density_kg_m3', 'algorithm_version'].join(',')]
   for (const row of LOBE_PROPERTY_ROWS) {

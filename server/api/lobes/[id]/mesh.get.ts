@@ -1,4 +1,3 @@
-import { createReadStream, statSync } from 'node:fs'
 import { eq } from 'drizzle-orm'
 import { idParamSchema } from '#shared/types/account'
 
@@ -13,14 +12,5 @@ export default defineEventHandler(async (event) => {
   const { id } = paramsAs(event, idParamSchema)
   const lobe = await useDB().select({ sha256: schema.lobes.sha256, units: schema.lobes.units }).from(schema.lobes).where(eq(schema.lobes.id, id)).get()
   if (!lobe) throw notFound('Lobe')
-  const etag = `"${lobe.sha256}-${lobe.units}-display"`
-  setResponseHeaders(event, { 'etag': etag, 'cache-control': 'private, max-age=0, must-revalidate', 'content-type': 'application/octet-stream' })
-  if (getRequestHeader(event, 'if-none-match') === etag) {
-    setResponseStatus(event, 304)
-    return null
-  }
-  // Waits for the display copy when it is still being prepared (a few seconds for large meshes).
-  const path = await ensureDisplayMesh(lobe.sha256, lobe.units)
-  setResponseHeader(event, 'content-length', statSync(path).size)
-  return sendStream(event, createReadStream(path))
+  return sendBinaryFile(event, await ensureDisplayMesh(lobe.sha256, lobe.units), `"${lobe.sha256}-${lobe.units}-display"`)
 })

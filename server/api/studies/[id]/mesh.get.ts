@@ -1,4 +1,4 @@
-import { createReadStream, existsSync, statSync } from 'node:fs'
+import { existsSync } from 'node:fs'
 import { idParamSchema } from '#shared/types/account'
 
 /** The merged body's display mesh (contact frame), `ISTHMF32` binary, cached by result key. */
@@ -8,12 +8,5 @@ export default defineEventHandler(async (event) => {
   const { study } = await loadStudy(useDB(), id)
   const path = studyMeshPaths(study.cacheKey).display
   if (study.status !== 'done' || !existsSync(path)) throw notFound('Merged-body mesh')
-  const etag = `"${study.cacheKey}-union"`
-  setResponseHeaders(event, { 'etag': etag, 'cache-control': 'private, max-age=0, must-revalidate', 'content-type': 'application/octet-stream' })
-  if (getRequestHeader(event, 'if-none-match') === etag) {
-    setResponseStatus(event, 304)
-    return null
-  }
-  setResponseHeader(event, 'content-length', statSync(path).size)
-  return sendStream(event, createReadStream(path))
+  return sendBinaryFile(event, path, `"${study.cacheKey}-union"`)
 })
