@@ -53,6 +53,7 @@ export async function runApiBench(): Promise<Record<string, number>> {
     }
     console.info('\n== API upload (loopback) ==')
     console.info(`binary PLY, ${figures.faces.toLocaleString('en')} faces, ${figures.fileMB.toFixed(1)} MB: 201 with properties in ${figures.uploadToPropertiesS.toFixed(2)} s (target ≤ 1.5 s)`)
+    console.info(`server: ${res.headers.get('server-timing')}`)
     console.info(`worker stages (ms): ${JSON.stringify(Object.fromEntries(Object.entries(res.json.report.timingsMs as Record<string, number>).map(([k, v]) => [k, Math.round(v)])))}`)
     console.info(`/api/health during the upload: ${figures.healthRequestsDuringUpload} answers, p50 ${figures.healthP50Ms.toFixed(1)} ms, max ${figures.healthMaxMs.toFixed(1)} ms`)
     return figures

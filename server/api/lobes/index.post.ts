@@ -16,6 +16,7 @@ export default defineEventHandler(async (event) => {
   if (Number.isFinite(declared) && declared > config.maxUploadBytes + 64 * 1024) throw tooLarge(config.maxUploadBytes)
   const paths = uploadPaths()
   const started: string[] = []
+  const timing: string[] = []
   const form = formidable({
     uploadDir: paths.tmp,
     maxFiles: 1,
@@ -34,7 +35,9 @@ export default defineEventHandler(async (event) => {
     let fields: formidable.Fields
     let files: formidable.Files
     try {
-      [fields, files] = await form.parse(event.node.req)
+      const t0 = performance.now()
+      ;[fields, files] = await form.parse(event.node.req)
+      timing.push(`receive;dur=${(performance.now() - t0).toFixed(1)}`)
     }
     catch (error) {
       const code = (error as { code?: number }).code
@@ -55,11 +58,14 @@ export default defineEventHandler(async (event) => {
     }
     const input = parsed.data
     if (file.size === 0) throw unprocessable('The file is empty', [{ path: 'file', message: 'empty file' }], 'empty-file')
+    const t1 = performance.now()
     const { lobe, job } = await ingestLobe({
       filePath: file.filepath, size: file.size, sha256: String(file.hash), originalName: file.originalFilename, ownerId: actor.id, ...input,
     })
     tmpPath = undefined
     await audit(event, { actorId: actor.id, action: 'lobe.uploaded', subjectType: 'lobe', subjectId: lobe.id, detail: { sha256: lobe.sha256, faces: lobe.faceCount, density: input.density, units: input.units } })
+    timing.push(`analyse;dur=${(performance.now() - t1).toFixed(1)}`)
+    setResponseHeader(event, 'server-timing', timing.join(', '))
     setResponseStatus(event, 201)
     return lobeView(lobe, job, { id: actor.id, name: actor.name })
   }
