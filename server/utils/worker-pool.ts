@@ -1,3 +1,4 @@
+import { setMaxListeners } from 'node:events'
 import { existsSync } from 'node:fs'
 import { availableParallelism } from 'node:os'
 import { join, resolve } from 'node:path'
@@ -53,8 +54,24 @@ class WorkerPool {
   run<T>(task: string, payload: unknown, opts: { transfer?: ArrayBuffer[], priority?: number, onProgress?: Progress, signal?: AbortSignal } = {}): Promise<T> {
     return new Promise<T>((resolve, reject) => {
       if (opts.signal?.aborted) return reject(new TaskCancelled())
-      const t: Task = { id: this.nextId++, task, payload, transfer: opts.transfer ?? [], priority: opts.priority ?? 0, onProgress: opts.onProgress, resolve: resolve as (v: unknown) => void, reject, signal: opts.signal }
-      opts.signal?.addEventListener('abort', () => this.cancel(t), { once: true })
+      const onAbort = () => this.cancel(t)
+      // One job's signal is shared by many chunk tasks: each listener goes when its task settles.
+      const settle = () => opts.signal?.removeEventListener('abort', onAbort)
+      const t: Task = {
+        id: this.nextId++, task, payload, transfer: opts.transfer ?? [], priority: opts.priority ?? 0, onProgress: opts.onProgress, signal: opts.signal,
+        resolve: (v) => {
+          settle()
+          resolve(v as T)
+        },
+        reject: (e) => {
+          settle()
+          reject(e)
+        },
+      }
+      if (opts.signal) {
+        setMaxListeners(0, opts.signal)
+        opts.signal.addEventListener('abort', onAbort, { once: true })
+      }
       this.queue.push(t)
       this.queue.sort((a, b) => b.priority - a.priority || a.id - b.id)
       this.pump()

@@ -10,6 +10,8 @@
  * axis through that centroid, ω in file-frame components (rad s⁻¹).
  */
 import { MeshoptSimplifier } from 'meshoptimizer'
+import { BufferAttribute, BufferGeometry, Vector3 } from 'three'
+import { MeshBVH } from 'three-mesh-bvh'
 import type { TriMesh, Vec3 } from './types'
 import { GeometryError } from './types'
 import { analyseEdges } from './validate'
@@ -236,12 +238,14 @@ export interface EvaluationPoints {
 }
 
 /**
- * Evaluation points for surface fields: the centroids of the faces of a copy simplified with
- * meshoptimizer (`MeshoptSimplifier`) to at most `maxPoints` faces (the mesh itself when already
- * small enough). The points lie on the SIMPLIFIED surface (its faces' centroids, not projected onto
- * the original), within the simplification error of the original surface; the field is still that
- * of the full original polyhedron. Points exactly on a face of the original would sit on
- * a face plane, where ω flips sign with a float zero: simplified centroids generally avoid it.
+ * Evaluation points for surface fields. When the mesh has more than `maxPoints` faces, a copy is
+ * simplified with meshoptimizer (`MeshoptSimplifier`) to at most `maxPoints` faces — the surface the
+ * results are drawn on — and each of its faces is tied to the ORIGINAL face nearest its centroid
+ * (three-mesh-bvh `closestPointToPoint`): the point and normal are that original face's centroid and
+ * unit normal, so every value is the field of the full polyhedron at a point of the real surface with
+ * its real orientation (a simplified face's own normal can be tens of degrees off, which would show as
+ * false slopes). `areas` are the simplified faces' areas (weights for means). Below the budget the
+ * mesh's own faces are used.
  */
 export async function evaluationPoints(mesh: TriMesh, maxPoints: number): Promise<EvaluationPoints> {
   if (!(maxPoints >= 4)) throw new GeometryError('bad-argument', `evaluationPoints: maxPoints must be ≥ 4, got ${maxPoints}`)
@@ -274,6 +278,7 @@ export async function evaluationPoints(mesh: TriMesh, maxPoints: number): Promis
     areas[f] = n / 2
     if (n > 0) { normals[3 * f] = nx / n; normals[3 * f + 1] = ny / n; normals[3 * f + 2] = nz / n }
   }
+  if (I !== mesh.indices) snapToOriginalFaces(mesh, points, normals)
   return { mesh: { positions: pos, indices: idx }, points, normals, areas }
 }
 
@@ -305,4 +310,31 @@ export function surfaceEscapeSpeed(model: PolyhedronModel, density: number, poin
     nonRotating, alongRotation: along,
     summary: { nonRotating: summarise(nonRotating, areas), alongRotation: along ? summarise(along, areas) : null },
   }
+}
+
+/** Replaces each point by the centroid and unit normal of the original face nearest to it. */
+function snapToOriginalFaces(mesh: TriMesh, points: Float64Array, normals: Float64Array) {
+  const P = mesh.positions, I = mesh.indices
+  const o = [P[0]!, P[1]!, P[2]!]
+  const f32 = new Float32Array(P.length)
+  for (let i = 0; i < P.length; i++) f32[i] = P[i]! - o[i % 3]!
+  const geometry = new BufferGeometry()
+  geometry.setAttribute('position', new BufferAttribute(f32, 3))
+  geometry.setIndex(new BufferAttribute(I, 1))
+  const bvh = new MeshBVH(geometry, { indirect: true })
+  const q = new Vector3()
+  const hit = { point: new Vector3(), distance: 0, faceIndex: 0 }
+  for (let k = 0; k < points.length / 3; k++) {
+    q.set(points[3 * k]! - o[0]!, points[3 * k + 1]! - o[1]!, points[3 * k + 2]! - o[2]!)
+    if (!bvh.closestPointToPoint(q, hit)) continue
+    const f = hit.faceIndex
+    const a = 3 * I[3 * f]!, b = 3 * I[3 * f + 1]!, c = 3 * I[3 * f + 2]!
+    for (let d = 0; d < 3; d++) points[3 * k + d] = (P[a + d]! + P[b + d]! + P[c + d]!) / 3
+    const ux = P[b]! - P[a]!, uy = P[b + 1]! - P[a + 1]!, uz = P[b + 2]! - P[a + 2]!
+    const wx = P[c]! - P[a]!, wy = P[c + 1]! - P[a + 1]!, wz = P[c + 2]! - P[a + 2]!
+    const nx = uy * wz - uz * wy, ny = uz * wx - ux * wz, nz = ux * wy - uy * wx
+    const n = Math.hypot(nx, ny, nz)
+    if (n > 0) { normals[3 * k] = nx / n; normals[3 * k + 1] = ny / n; normals[3 * k + 2] = nz / n }
+  }
+  geometry.dispose()
 }
