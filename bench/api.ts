@@ -20,10 +20,11 @@ export async function runApiBench(): Promise<Record<string, number>> {
   if (!existsSync('.output/server/index.mjs')) spawnSync('npx', ['nuxt', 'build'], { stdio: 'inherit' })
   const mesh = ellipsoidMesh(12_000, 8_000, 6_000, 8)
   const bytes = writePly(mesh, 'binary_little_endian')
-  const server = await startServer({ ISTHMUS_DEMO: '1', ISTHMUS_MAX_UPLOAD_MB: '512' })
+  // An idle server (no demo content computing its surface fields in the background).
+  const server = await startServer({ ISTHMUS_MAX_UPLOAD_MB: '512' })
   try {
     const analyst = new Agent(server.url)
-    await analyst.signIn('analyst@example.org', 'isthmus-demo')
+    await analyst.signIn('root@example.org', 'root-password-123')
     // Warm the worker pool with a small upload, so the figure is the steady state.
     await uploadLobe(analyst, writePly(ellipsoidMesh(3, 2, 1, 2), 'binary_little_endian'), 'warm.ply', { density: '1000', units: 'm' })
     let polling = true

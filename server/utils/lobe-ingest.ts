@@ -10,6 +10,7 @@ interface AnalyseResult {
   properties: Record<string, unknown>
   report: Record<string, unknown> & { warnings: { code: string, message: string }[], vertexCount: number, faceCount: number }
   timings: Record<string, number>
+  receivedAt: number
 }
 
 export interface IngestInput {
@@ -36,6 +37,8 @@ export async function ingestLobe(input: IngestInput) {
   const derived = derivedMeshPaths(input.sha256, input.units)
   let analysed: AnalyseResult
   try {
+    var tw = performance.now()
+    var dispatchedAt = Date.now()
     analysed = await useWorkerPool().run<AnalyseResult>('analyse', {
       filePath: input.filePath, units: input.units, density: input.density, referenceRadius: input.referenceRadius,
       analysisMeshPath: derived.analysis, maxFaces: 20_000_000,
@@ -48,6 +51,8 @@ export async function ingestLobe(input: IngestInput) {
   const ext = analysed.format
   const storedPath = join('meshes', `${input.sha256}.${ext}`)
   const db = useDB()
+  const workerMs = performance.now() - tw
+  const td = performance.now()
   const existing = await db.select().from(schema.meshFiles).where(eq(schema.meshFiles.sha256, input.sha256)).get()
   if (existing) await rm(input.filePath, { force: true })
   else {
@@ -75,5 +80,5 @@ export async function ingestLobe(input: IngestInput) {
   // The display copy is prepared in the background: the answer does not wait for it.
   void ensureDisplayMesh(input.sha256, input.units).catch(error => console.error('[isthmus] display mesh failed:', error))
   const job = await startSurfaceJob(db, lobe!)
-  return { lobe: lobe!, job }
+  return { lobe: lobe!, job, timings: { worker: workerMs, queued: analysed.receivedAt - dispatchedAt, store: performance.now() - td, ...analysed.timings } }
 }

@@ -19,6 +19,7 @@ export function serverReady(): Promise<void> {
       const port = await startLocalSmtp(db, config.localSmtpPort)
       console.info(`[isthmus] local mail drop listening on 127.0.0.1:${port}`)
     }
+    useWorkerPool().prestart()
     await ensureFirstAdmin(db)
     if (config.demo) await seedDemo(db)
     await afterStartHooks.reduce((p, hook) => p.then(() => hook(db)), Promise.resolve())

@@ -136,6 +136,11 @@ class WorkerPool {
     }
   }
 
+  /** Starts every worker now (each warms its hot loops), so the first request does not wait for that. */
+  prestart() {
+    while (this.slots.length < this.size) this.spawn()
+  }
+
   async close() {
     await Promise.all(this.slots.map(s => s.worker.terminate()))
     this.slots = []

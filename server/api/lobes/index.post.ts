@@ -59,12 +59,12 @@ export default defineEventHandler(async (event) => {
     const input = parsed.data
     if (file.size === 0) throw unprocessable('The file is empty', [{ path: 'file', message: 'empty file' }], 'empty-file')
     const t1 = performance.now()
-    const { lobe, job } = await ingestLobe({
+    const { lobe, job, timings } = await ingestLobe({
       filePath: file.filepath, size: file.size, sha256: String(file.hash), originalName: file.originalFilename, ownerId: actor.id, ...input,
     })
     tmpPath = undefined
     await audit(event, { actorId: actor.id, action: 'lobe.uploaded', subjectType: 'lobe', subjectId: lobe.id, detail: { sha256: lobe.sha256, faces: lobe.faceCount, density: input.density, units: input.units } })
-    timing.push(`analyse;dur=${(performance.now() - t1).toFixed(1)}`)
+    timing.push(`analyse;dur=${(performance.now() - t1).toFixed(1)}`, ...Object.entries(timings).map(([k, v]) => `${k};dur=${v.toFixed(1)}`))
     setResponseHeader(event, 'server-timing', timing.join(', '))
     setResponseStatus(event, 201)
     return lobeView(lobe, job, { id: actor.id, name: actor.name })
