@@ -36,9 +36,9 @@ export async function ingestLobe(input: IngestInput) {
   const paths = uploadPaths()
   const derived = derivedMeshPaths(input.sha256, input.units)
   let analysed: AnalyseResult
+  const tw = performance.now()
+  const dispatchedAt = Date.now()
   try {
-    var tw = performance.now()
-    var dispatchedAt = Date.now()
     analysed = await useWorkerPool().run<AnalyseResult>('analyse', {
       filePath: input.filePath, units: input.units, density: input.density, referenceRadius: input.referenceRadius,
       analysisMeshPath: derived.analysis, maxFaces: 20_000_000,
