@@ -137,8 +137,8 @@ async function runSurfaceJob(db: DB, lobe: Lobe, job: Job) {
       omega = [axis[0] * w, axis[1] * w, axis[2] * w]
     }
     // Chunks small enough that uploads waiting for a worker get one soon.
-    // About 5 M face·point kernels (~0.1 s) per chunk, at most 256 chunks.
-    const chunks = Math.max(2, Math.min(256, n, Math.ceil((n * lobe.faceCount) / 5e6)))
+    // About 5 M face·point kernels (~0.1 s) per chunk (at least one point each, at most 4096 chunks).
+    const chunks = Math.max(2, Math.min(4096, n, Math.ceil((n * lobe.faceCount) / 5e6)))
     const per = Math.ceil(n / chunks)
     const done = new Float64Array(chunks)
     const results = await Promise.all(Array.from({ length: chunks }, (_, c) => {
