@@ -189,7 +189,12 @@ export const objects = sqliteTable('objects', {
   createdBy: integer('created_by').notNull().references(() => users.id),
   createdAt: createdAt(),
   updatedAt: integer('updated_at', { mode: 'timestamp_ms' }).notNull().default(sql`(unixepoch('subsec') * 1000)`),
+  /** Attachments in each state, kept by triggers on `attachments` (migration 0003): list sorts read them. */
+  proposedCount: integer('proposed_count').notNull().default(0),
+  acceptedCount: integer('accepted_count').notNull().default(0),
 }, t => [
+  index('objects_proposed_count_idx').on(t.proposedCount),
+  index('objects_accepted_count_idx').on(t.acceptedCount),
   uniqueIndex('objects_designation_unique').on(sql`${t.designation} collate nocase`),
   index('objects_name_idx').on(sql`${t.name} collate nocase`),
   index('objects_population_idx').on(t.population, sql`${t.designation} collate nocase`),
