@@ -3,12 +3,16 @@
  * Seeds 10 000 records and 100 000 attachments into a temporary database behind the BUILT server,
  * then times list, filter, sort, record and export requests on loopback (client time and the
  * server's `Server-Timing` db figure; target < 100 ms each), and runs a 200 req/s, 30 s mixed-read
- * load with autocannon reporting p50/p99 latency and errors. Prints figures; returns them too.
+ * load with autocannon reporting p50/p99 latency and errors while one contact study runs on the
+ * workers. Prints figures; returns them too.
  * Set ISTHMUS_BENCH_LOAD_SECONDS to shorten the load run.
  */
 import { createRequire } from 'node:module'
 import { fileURLToPath } from 'node:url'
 import type { Client } from '@libsql/client'
+import { icosphere, writePly } from '../shared/geometry'
+import { Agent } from '../tests/e2e/support/http'
+import { uploadLobe } from '../tests/e2e/support/lobes'
 import { startServer } from '../tests/e2e/support/server'
 
 const RECORDS = 10_000
@@ -109,6 +113,16 @@ export async function runRecordsBench(): Promise<Record<string, number>> {
       console.log(`${label.padEnd(52)} ${p50.toFixed(1).padStart(6)} / ${quantile(client, 0.95).toFixed(1).padStart(6)} / ${client.at(-1)!.toFixed(1).padStart(6)}   ${dbText.padStart(8)}${flag}`)
     }
 
+    // One contact study runs on the workers during the load (two 20 480-face lobes with a spread).
+    const analyst = new Agent(server.url)
+    await analyst.signIn('root@example.org', 'root-password-123')
+    const lobeA = (await uploadLobe(analyst, writePly(icosphere(5, 1000), 'binary_little_endian'), 'a.ply', { density: '1000', units: 'm' })).json
+    const lobeB = (await uploadLobe(analyst, writePly(icosphere(5, 600), 'binary_little_endian'), 'b.ply', { density: '1000', units: 'm' })).json
+    await new Promise(r => setTimeout(r, 3000)) // let their surface fields finish
+    const prior = { kind: 'uniform', min: 500, max: 1500 }
+    const study = (await analyst.post('/api/studies', { lobeA: lobeA.id, lobeB: lobeB.id, direction: [1, 0.2, 0], orbit: { kind: 'parabolic' }, overlapDepth: 50,
+      spread: { seed: 1, samples: 400, densityA: prior, densityB: prior, coneHalfAngleDeg: 20, scale: { kind: 'fixed', value: 1 } } })).json
+
     const autocannon = createRequire(import.meta.url)('autocannon')
     const seconds = Number(process.env.ISTHMUS_BENCH_LOAD_SECONDS) || 30
     const mixed = scenarios.filter(([l]) => !l.startsWith('export')).map(([, p]) => p)
@@ -121,6 +135,8 @@ export async function runRecordsBench(): Promise<Record<string, number>> {
       headers: { cookie },
       requests: mixed.map(path => ({ method: 'GET', path })),
     })
+    const during = (await analyst.get(`/api/studies/${study.id}`)).json
+    console.log(`study ${study.id} during the load: ${during.status}, ${Math.round(during.progress * 100)} % (${during.stage})`)
     fig.loadP50Ms = load.latency.p50
     fig.loadP99Ms = load.latency.p99
     fig.loadRequests = load.requests.total

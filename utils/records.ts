@@ -24,6 +24,9 @@ export function formatRecordSpread(spread: Record<string, number | string> | nul
   const n = (k: string) => (typeof spread[k] === 'number' ? spread[k] as number : undefined)
   const sd = n('sd') ?? n('std')
   const what = spread.basis === 'surface-range' ? 'surface range' : 'spread'
+  const mean = n('mean')
+  // A spread has its own centre, which need not be the nominal value beside it.
+  if (sd !== undefined && mean !== undefined) return `(${what}: ${formatRecordNumber(mean)} ± ${formatRecordNumber(sd)})`
   if (sd !== undefined) return `± ${formatRecordNumber(sd)} (${what})`
   const lo = n('min') ?? n('low') ?? n('p05') ?? n('p16')
   const hi = n('max') ?? n('high') ?? n('p95') ?? n('p84')

@@ -6,7 +6,7 @@ import { quantityDef, readQuantity, supersedeGroup } from '../../shared/types/qu
 const DEMO_RECORDS = [
   {
     designation: '2041 KD9',
-    name: 'Demo alpha',
+    name: 'Tessaly',
     population: 'kuiper-belt' as const,
     notes: 'Invented demo record: a cold classical twin-lobe body. Both lobe meshes are procedurally generated.',
     orbit: { a: 44.3, e: 0.037, i: 2.1 },
@@ -14,9 +14,9 @@ const DEMO_RECORDS = [
   },
   {
     designation: 'P/2043 TW118',
-    name: 'Demo beta',
+    name: 'Marrow',
     population: 'jupiter-family-comet' as const,
-    notes: 'Invented demo record: a comet nucleus with a small lobe on a broad one.',
+    notes: 'Invented demo record: a comet nucleus with a small lobe on a broad one (its primary is the demo lobe "Marrow pair — primary").',
     orbit: { a: 3.46, e: 0.62, i: 7.8 },
     tags: ['demo', 'unequal-lobes'],
   },

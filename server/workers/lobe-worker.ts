@@ -3,7 +3,9 @@
  * { id, task, payload } in; { id, progress } / { id, result } / { id, error } out.
  * Built with esbuild into `<server>/workers/lobe-worker.mjs` (see nuxt.config.ts).
  */
+import { readlinkSync } from 'node:fs'
 import { readFile } from 'node:fs/promises'
+import { setPriority } from 'node:os'
 import { parentPort } from 'node:worker_threads'
 import { GeometryError, evaluationPoints, icosphere, massProperties, writePly, preparePolyhedron, readMesh, summarise, surfaceEscapeSpeed, surfaceFieldChunk, validateMesh } from '../../shared/geometry'
 import type { PolyhedronModel, TriMesh, Vec3 } from '../../shared/geometry'
@@ -120,6 +122,16 @@ function transferables(value: unknown, out: ArrayBuffer[] = []): ArrayBuffer[] {
     for (const v of Object.values(value)) transferables(v, out)
   }
   return out
+}
+
+// Heavy work yields to the request thread: on Linux a thread's niceness is its own, so this worker
+// lowers its priority (nice 10) and requests keep their latency while studies and fields run.
+try {
+  const tid = Number(readlinkSync('/proc/thread-self').split('/').pop())
+  if (Number.isInteger(tid) && tid > 0) setPriority(tid, Number(process.env.ISTHMUS_WORKER_NICE ?? 10))
+}
+catch {
+  // Not Linux, or not allowed: the worker keeps the default priority.
 }
 
 // Warm the hot loops once at start (a small in-memory sphere), so the first real upload does not

@@ -70,14 +70,14 @@ export interface MergedBody {
   deeveSemiAxes: Vec3
   /** Total angular momentum (orbit + lobe spins), kg m² s⁻¹, contact frame. */
   angularMomentum: Vec3
-  /** ω = I⁻¹L, rad/s, its period 2π/|ω| (s) and unit axis. */
+  /** ω = I⁻¹L, rad/s, its period 2π/|ω| (s) and unit axis; null when the body does not spin (L = 0). */
   angularVelocity: Vec3
-  spinPeriod: number
-  spinAxis: Vec3
-  /** 2πC/|L| — the period after relaxing to spin about the largest-moment axis, s. */
-  relaxedSpinPeriod: number
-  /** Angle between L and the largest-moment axis, deg (0–90). */
-  tumbleAngleDeg: number
+  spinPeriod: number | null
+  spinAxis: Vec3 | null
+  /** 2πC/|L| — the period after relaxing to spin about the largest-moment axis, s (null: no spin). */
+  relaxedSpinPeriod: number | null
+  /** Angle between L and the largest-moment axis, deg (0–90); null when L = 0. */
+  tumbleAngleDeg: number | null
   /** √(3π/(Gρ)) at the merged bulk density, s. */
   breakupSpinPeriod: number
   /** 2π√(d³/(GM)) (lobes as point masses), s, and with the full-shape attraction when given. */
@@ -133,10 +133,13 @@ export function mergedBody(input: MergedInput): MergedBody {
   const wMag = norm(omega)
   const Lmag = norm(L)
   const cAxis = P.principalAxes[2]
-  const tumble = Lmag > 0 ? angleBetweenDeg(L, cAxis) : 0
   const d = input.separation
   const M = P.mass
   const sep = 2 * Math.PI * Math.sqrt(d ** 3 / (G * mLobes))
+  // No spin at all (e.g. a head-on approach with non-spinning lobes): |L| at round-off level of
+  // the body's angular-momentum scale C·(2π/P_sep). Periods and the tumble angle are then undefined.
+  const spinning = Lmag > 1e-9 * P.principalMoments[2] * (2 * Math.PI / sep) && wMag > 0
+  const tumble = spinning ? angleBetweenDeg(L, cAxis) : null
   const mu = propsA.mass * propsB.mass / mLobes
   const sepFull = input.fullShapeForce && input.fullShapeForce > 0 ? 2 * Math.PI / Math.sqrt(input.fullShapeForce / (mu * d)) : null
   let neckStress: number | null = null
@@ -162,10 +165,10 @@ export function mergedBody(input: MergedInput): MergedBody {
     deeveSemiAxes: P.deeveSemiAxes,
     angularMomentum: L,
     angularVelocity: omega,
-    spinPeriod: wMag > 0 ? 2 * Math.PI / wMag : Infinity,
-    spinAxis: wMag > 0 ? scale(omega, 1 / wMag) : cAxis,
-    relaxedSpinPeriod: Lmag > 0 ? 2 * Math.PI * P.principalMoments[2] / Lmag : Infinity,
-    tumbleAngleDeg: Math.min(tumble, 180 - tumble),
+    spinPeriod: spinning ? 2 * Math.PI / wMag : null,
+    spinAxis: spinning ? scale(omega, 1 / wMag) : null,
+    relaxedSpinPeriod: spinning ? 2 * Math.PI * P.principalMoments[2] / Lmag : null,
+    tumbleAngleDeg: tumble === null ? null : Math.min(tumble, 180 - tumble),
     breakupSpinPeriod: breakupSpinPeriod(M / P.volume),
     separationSpinPeriod: sep,
     separationSpinPeriodFullShape: sepFull,

@@ -26,10 +26,10 @@ export const LOBE_PROPERTY_ROWS: PropertyRow[] = [
   { key: 'C22Normalized', label: 'C̄22 (4π-normalised)', unit: '—', help: 'C̄22 = C22/√(5/12).' },
   { key: 'maxRadius', label: 'Maximum radius', unit: 'm', help: 'Distance from the centre of mass to the farthest vertex.' },
   { key: 'escapeSpeedPointMass', label: 'Escape speed, point mass at max radius', unit: 'm s⁻¹', help: '√(2GM/r_max): a rough figure that ignores the shape and spin.' },
-  { key: 'escapeSpeedSurface', label: 'Escape speed from the surface (polyhedral)', unit: 'm s⁻¹', help: '√(2U) from the polyhedral potential at the evaluation points, non-rotating; min / max / mean.' },
-  { key: 'surfaceGravity', label: 'Surface gravity', unit: 'm s⁻²', help: 'Magnitude of the polyhedral gravitational acceleration at the evaluation points; min / max / mean (area-weighted).' },
-  { key: 'slopeDeg', label: 'Surface slope', unit: '°', help: 'Angle between the inward normal and the total acceleration (gravity + rotation if a spin is given).' },
-  { key: 'geopotentialHeight', label: 'Geopotential height', unit: 'm', help: '(U_max − U)/ḡ of the effective potential: height above the lowest point.' },
+  { key: 'escapeSpeedSurface', label: 'Escape speed from the surface (polyhedral): mean (min – max)', unit: 'm s⁻¹', help: '√(2U) from the polyhedral potential at the evaluation points, non-rotating; min / max / mean.' },
+  { key: 'surfaceGravity', label: 'Surface gravity: mean (min – max)', unit: 'm s⁻²', help: 'Magnitude of the polyhedral gravitational acceleration at the evaluation points; min / max / mean (area-weighted).' },
+  { key: 'slopeDeg', label: 'Surface slope: mean (min – max)', unit: '°', help: 'Angle between the inward normal and the total acceleration (gravity + rotation if a spin is given).' },
+  { key: 'geopotentialHeight', label: 'Geopotential height: mean (min – max)', unit: 'm', help: '(U_max − U)/ḡ of the effective potential: height above the lowest point.' },
 ]
 
 /** Flattens a value into CSV cells: vectors and {min,max,mean} become several rows. */

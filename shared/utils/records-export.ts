@@ -39,12 +39,21 @@ export function recordValueText(value: number | number[]): string {
   return Array.isArray(value) ? `[${value.map(recordNumberText).join(', ')}]` : recordNumberText(value)
 }
 
-/** "± sd", "[min, max]" or the numeric fields of a spread, with what it means. */
+/**
+ * "± sd", "[min, max]" or the numeric fields of a spread, with what it means. A study spread has its
+ * own centre (its samples' mean and median), which need not be the nominal value it is shown beside:
+ * when the spread states them they are written out, so "± σ" is never read as centred on the nominal.
+ */
 export function recordSpreadText(spread: Record<string, number | string> | null | undefined): string {
   if (!spread) return ''
   const n = (k: string) => (typeof spread[k] === 'number' ? spread[k] as number : undefined)
   const basis = spread.basis === 'surface-range' ? 'range over the surface' : 'study spread'
   const sd = n('sd') ?? n('std')
+  const mean = n('mean')
+  const median = n('median')
+  if (sd !== undefined && mean !== undefined) {
+    return `(${basis}: mean ${recordNumberText(mean)} ± ${recordNumberText(sd)} 1σ${median !== undefined ? `, median ${recordNumberText(median)}` : ''})`
+  }
   if (sd !== undefined) return `± ${recordNumberText(sd)} (${basis}, 1σ)`
   const lo = n('min') ?? n('low') ?? n('p05') ?? n('p16')
   const hi = n('max') ?? n('high') ?? n('p95') ?? n('p84')

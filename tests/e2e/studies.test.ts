@@ -42,6 +42,10 @@ describe('contact studies through the API', () => {
     // √(3π/(Gρ)) at the merged bulk density (SCIENCE.md §5).
     expect(done.result.merged.breakupSpinPeriod).toBeCloseTo(Math.sqrt(3 * Math.PI / (G * done.result.merged.density)), 6)
     expect(done.result.unionStored).toBe(true)
+    // Head-on from rest with lobes synchronous with a non-rotating orbit: no angular momentum, so the
+    // merged body does not spin and its spin period and tumble angle are undefined (null), not huge.
+    expect(done.result.merged.spinPeriod).toBeNull()
+    expect(done.result.merged.tumbleAngleDeg).toBeNull()
     const mesh = await as.viewer.get(`/api/studies/${res.json.id}/mesh`)
     expect(mesh.status, mesh.text.slice(0, 300)).toBe(200)
     const obj = await as.viewer.get(`/api/studies/${res.json.id}/merged.obj`)

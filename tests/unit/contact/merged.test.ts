@@ -41,7 +41,8 @@ describe('merged body', () => {
     // Point-mass separation period 2π√(d³/(GM)).
     expect(m.separationSpinPeriod / (2 * Math.PI * Math.sqrt(d ** 3 / (G * (pA.mass + pB.mass))))).toBeCloseTo(1, 12)
     // Neck stress, SCIENCE.md §6: F_n = m_B(ω²r_B − G m_A/d²) over the area.
-    const w = 2 * Math.PI / m.spinPeriod
+    expect(m.spinPeriod).not.toBeNull()
+    const w = 2 * Math.PI / m.spinPeriod!
     const rB = d * pA.mass / (pA.mass + pB.mass)
     const sigma = pB.mass * (w * w * rB - G * pA.mass / d ** 2) / 0.1
     expect(m.neckStress! / sigma).toBeCloseTo(1, 10)
