@@ -334,7 +334,8 @@ describe('object records: attach, review, supersede, export, mail', () => {
     const txt = await as.viewer.get(`/api/objects/${recordId}/export.txt`)
     expect(txt.headers.get('content-type')).toMatch(/text\/plain/)
     expect(txt.text).toContain('2047 RZ3')
-    expect(txt.text).toContain('0.30000000000000004 m s⁻¹ ± 0.02 (study spread, 1σ)')
+    // The spread is written with its own centre (mean, median), not as ± around the nominal value.
+    expect(txt.text).toContain('0.30000000000000004 m s⁻¹ (study spread: mean 0.3 ± 0.02 1σ, median 0.3)')
     expect(txt.text).toContain(lobeDense.sha256)
     expect(txt.text).toMatch(/Cautions:\n- Every value is a model estimate/)
   })

@@ -76,5 +76,7 @@ describe('record CSV', () => {
   it('describes spreads by what they hold', () => {
     expect(recordSpreadText({ basis: 'surface-range', min: 1, max: 2 })).toBe('[1, 2] (range over the surface)')
     expect(recordSpreadText(null)).toBe('')
+    // A study spread names its own centre, which need not be the nominal value it is printed beside.
+    expect(recordSpreadText({ basis: 'study-spread', mean: 4.67, std: 0.6, median: 4.68, min: 3, max: 6 })).toBe('(study spread: mean 4.67 ± 0.6 1σ, median 4.68)')
   })
 })
