@@ -1,6 +1,7 @@
 import { rename, writeFile } from 'node:fs/promises'
 import { MeshoptSimplifier } from 'meshoptimizer'
 import type { TriMesh, Vec3 } from '../../shared/geometry'
+import { compactVertices } from '../../shared/geometry/compact'
 import { encodeDisplayMesh } from '../../shared/utils/mesh-binary'
 
 /** Writes through a temporary file and one rename, so readers never see a half-written file. */
@@ -26,19 +27,6 @@ export async function displayBytes(mesh: TriMesh, budget: number): Promise<Uint8
   await MeshoptSimplifier.ready
   let [indices] = MeshoptSimplifier.simplifySloppy(mesh.indices, local, 3, null, budget * 3, 1)
   if (indices.length / 3 > budget) indices = indices.slice(0, budget * 3)
-  // Keep only the vertices the copy uses.
-  const map = new Int32Array(nv).fill(-1)
-  let used = 0
-  const out = new Uint32Array(indices.length)
-  for (let i = 0; i < indices.length; i++) {
-    const v = indices[i]
-    if (map[v] === -1) map[v] = used++
-    out[i] = map[v]
-  }
-  const positions = new Float32Array(3 * used)
-  for (let v = 0; v < nv; v++) {
-    const u = map[v]
-    if (u >= 0) positions.set(local.subarray(3 * v, 3 * v + 3), 3 * u)
-  }
-  return encodeDisplayMesh({ origin, positions, indices: out })
+  const kept = compactVertices(local, indices)
+  return encodeDisplayMesh({ origin, positions: kept.positions, indices: kept.indices })
 }

@@ -15,6 +15,7 @@ import { MeshBVH } from 'three-mesh-bvh'
 import type { TriMesh, Vec3 } from './types'
 import { GeometryError } from './types'
 import { analyseEdges } from './validate'
+import { compactVertices, faceCentroidNormal } from './compact'
 import { G } from './mass'
 
 export interface PolyhedronModel {
@@ -259,27 +260,12 @@ export async function evaluationPoints(mesh: TriMesh, maxPoints: number): Promis
     const [simp] = MeshoptSimplifier.simplify(I, f32, 3, Math.floor(maxPoints) * 3, 1, [])
     I = simp.length / 3 > maxPoints ? simp.slice(0, 3 * Math.floor(maxPoints)) : simp
   }
-  // compact vertices
-  const map = new Int32Array(P.length / 3).fill(-1)
-  let nv = 0
-  const idx = new Uint32Array(I.length)
-  for (let i = 0; i < I.length; i++) { const v = I[i]!; if (map[v] === -1) map[v] = nv++; idx[i] = map[v]! }
-  const pos = new Float64Array(3 * nv)
-  for (let v = 0; v < map.length; v++) { const u = map[v]!; if (u >= 0) { pos[3 * u] = P[3 * v]!; pos[3 * u + 1] = P[3 * v + 1]!; pos[3 * u + 2] = P[3 * v + 2]! } }
-  const nf = idx.length / 3
+  const simplified = compactVertices(P, I)
+  const nf = simplified.indices.length / 3
   const points = new Float64Array(3 * nf), normals = new Float64Array(3 * nf), areas = new Float64Array(nf)
-  for (let f = 0; f < nf; f++) {
-    const a = 3 * idx[3 * f]!, b = 3 * idx[3 * f + 1]!, c = 3 * idx[3 * f + 2]!
-    for (let d = 0; d < 3; d++) points[3 * f + d] = (pos[a + d]! + pos[b + d]! + pos[c + d]!) / 3
-    const ux = pos[b]! - pos[a]!, uy = pos[b + 1]! - pos[a + 1]!, uz = pos[b + 2]! - pos[a + 2]!
-    const wx = pos[c]! - pos[a]!, wy = pos[c + 1]! - pos[a + 1]!, wz = pos[c + 2]! - pos[a + 2]!
-    const nx = uy * wz - uz * wy, ny = uz * wx - ux * wz, nz = ux * wy - uy * wx
-    const n = Math.hypot(nx, ny, nz)
-    areas[f] = n / 2
-    if (n > 0) { normals[3 * f] = nx / n; normals[3 * f + 1] = ny / n; normals[3 * f + 2] = nz / n }
-  }
+  for (let f = 0; f < nf; f++) areas[f] = faceCentroidNormal(simplified, f, points, normals, f)
   if (I !== mesh.indices) snapToOriginalFaces(mesh, points, normals)
-  return { mesh: { positions: pos, indices: idx }, points, normals, areas }
+  return { mesh: simplified, points, normals, areas }
 }
 
 /**
@@ -327,14 +313,7 @@ function snapToOriginalFaces(mesh: TriMesh, points: Float64Array, normals: Float
   for (let k = 0; k < points.length / 3; k++) {
     q.set(points[3 * k]! - o[0]!, points[3 * k + 1]! - o[1]!, points[3 * k + 2]! - o[2]!)
     if (!bvh.closestPointToPoint(q, hit)) continue
-    const f = hit.faceIndex
-    const a = 3 * I[3 * f]!, b = 3 * I[3 * f + 1]!, c = 3 * I[3 * f + 2]!
-    for (let d = 0; d < 3; d++) points[3 * k + d] = (P[a + d]! + P[b + d]! + P[c + d]!) / 3
-    const ux = P[b]! - P[a]!, uy = P[b + 1]! - P[a + 1]!, uz = P[b + 2]! - P[a + 2]!
-    const wx = P[c]! - P[a]!, wy = P[c + 1]! - P[a + 1]!, wz = P[c + 2]! - P[a + 2]!
-    const nx = uy * wz - uz * wy, ny = uz * wx - ux * wz, nz = ux * wy - uy * wx
-    const n = Math.hypot(nx, ny, nz)
-    if (n > 0) { normals[3 * k] = nx / n; normals[3 * k + 1] = ny / n; normals[3 * k + 2] = nz / n }
+    faceCentroidNormal(mesh, hit.faceIndex, points, normals, k)
   }
   geometry.dispose()
 }

@@ -16,6 +16,7 @@
  * `maxFaces` faces each, with the density rescaled so each lobe keeps its mass; the report says so.
  */
 import { MeshoptSimplifier } from 'meshoptimizer'
+import { compactVertices } from './compact'
 import type { TriMesh, Vec3 } from './types'
 import { GeometryError } from './types'
 import { acceleration, potential, preparePolyhedron } from './gravity'
@@ -107,20 +108,7 @@ export async function simplifyClosed(mesh: TriMesh, maxFaces: number): Promise<{
   const f32 = new Float32Array(P.length)
   for (let i = 0; i < P.length; i++) f32[i] = P[i] - P[i % 3]
   const [simp] = MeshoptSimplifier.simplify(mesh.indices, f32, 3, Math.floor(maxFaces) * 3, 1, [])
-  const map = new Int32Array(P.length / 3).fill(-1)
-  let nv = 0
-  const idx = new Uint32Array(simp.length)
-  for (let i = 0; i < simp.length; i++) {
-    const v = simp[i]
-    if (map[v] === -1) map[v] = nv++
-    idx[i] = map[v]
-  }
-  const pos = new Float64Array(3 * nv)
-  for (let v = 0; v < map.length; v++) {
-    const u = map[v]
-    if (u >= 0) { pos[3 * u] = P[3 * v]; pos[3 * u + 1] = P[3 * v + 1]; pos[3 * u + 2] = P[3 * v + 2] }
-  }
-  const out = { positions: pos, indices: idx }
+  const out = compactVertices(P, simp)
   return isClosed(out) ? { mesh: out, simplified: true } : { mesh, simplified: false }
 }
 
