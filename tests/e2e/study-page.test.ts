@@ -46,6 +46,11 @@ describe('in a real browser: the study result page', () => {
       })
       expect(ink).toBeGreaterThan(0.01)
     }
+    // The scatter's x axis covers every sample's density (chart.js reads the range from sorted data).
+    const densities = (await (await page.request.get(`${server.url}/api/studies/${studyId}`)).json()).result.spread.sampleValues.map((s: { densityA: number }) => s.densityA)
+    const [xMin, xMax] = await charts.nth(1).evaluate((c: HTMLCanvasElement) => [Number(c.dataset.xMin), Number(c.dataset.xMax)])
+    expect(xMin).toBeLessThanOrEqual(Math.min(...densities))
+    expect(xMax).toBeGreaterThanOrEqual(Math.max(...densities))
     await expect.poll(() => page.getByTestId('spin-period').innerText()).toMatch(/no spin/)
     expect(await page.locator('main').innerText()).toContain('Priors: density of A uniform 400–1200 kg m⁻³')
   })
