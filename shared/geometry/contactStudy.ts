@@ -10,7 +10,7 @@ import { G, massProperties } from './mass'
 import { ContactBvhCache, applyPose, firstContact, meshInContactFrame } from './contact'
 import type { Pose } from './contact'
 import { contactKinematics } from './kinematics'
-import type { NoContact, RelativeOrbit } from './kinematics'
+import type { ContactKinematics, NoContact, RelativeOrbit } from './kinematics'
 import { fullShapeSpeeds, mutualPotential } from './mutual'
 import { neckAtDepth, neckSweep } from './neck'
 import type { Neck } from './neck'
@@ -56,23 +56,16 @@ export interface ContactStudyInput {
   keyB?: string
 }
 
-export interface ContactResult {
+/** The kinematic fields of the contact result, as `contactKinematics` defines and documents them. */
+type ContactSpeeds = Pick<ContactKinematics, 'speed' | 'escapeSpeed' | 'sphereEquivalentEscapeSpeed' | 'speedRatio' | 'radialSpeed' | 'tangentialSpeed'
+  | 'normalSpeed' | 'impactAngleFromNormalDeg' | 'impactAngleFromTangentDeg' | 'orbitalAngularMomentum' | 'massRatio'>
+
+export interface ContactResult extends ContactSpeeds {
   separation: number
   point: Vec3
   normalA: Vec3
   normalB: Vec3
   poseB: Pose
-  speed: number
-  escapeSpeed: number
-  sphereEquivalentEscapeSpeed: number
-  speedRatio: number
-  radialSpeed: number
-  tangentialSpeed: number
-  normalSpeed: number
-  impactAngleFromNormalDeg: number
-  impactAngleFromTangentDeg: number
-  orbitalAngularMomentum: Vec3
-  massRatio: number
   speedFullShape: number
   escapeSpeedFullShape: number
   /** Quadrature report of the full-shape figures. */
