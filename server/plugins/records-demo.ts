@@ -1,4 +1,5 @@
-// Demo object records join the demo team's content (seeded only when ISTHMUS_DEMO=1).
+// Demo mode: invented object records, then the demo contact study linked to the first of them.
 export default defineNitroPlugin(() => {
   registerDemoSeeder(seedRecordsDemo)
+  registerDemoSeeder(seedDemoStudy)
 })

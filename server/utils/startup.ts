@@ -21,8 +21,10 @@ export function serverReady(): Promise<void> {
     }
     useWorkerPool().prestart()
     await ensureFirstAdmin(db)
-    if (config.demo) await seedDemo(db)
+    // Work left behind by an earlier run is settled first, so the demo's own new jobs are not
+    // mistaken for interrupted ones.
     await afterStartHooks.reduce((p, hook) => p.then(() => hook(db)), Promise.resolve())
+    if (config.demo) await seedDemo(db)
   })()
   return ready
 }

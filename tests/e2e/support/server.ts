@@ -45,6 +45,7 @@ export async function startServer(env: Record<string, string> = {}): Promise<Run
     ISTHMUS_PUBLIC_URL: `http://127.0.0.1:${port}`,
     ISTHMUS_ADMIN_EMAIL: 'root@example.org',
     ISTHMUS_ADMIN_PASSWORD: 'root-password-123',
+    ISTHMUS_DEMO_STUDY: '0',
     ...env,
   }
   let child: ChildProcess | undefined
