@@ -173,6 +173,31 @@ describe('sign-in rate limit per client address', () => {
   })
 })
 
+describe('sign-in rate limit under parallel guesses', () => {
+  it('lets at most the allowed number of parallel bad sign-ins reach the password check', async () => {
+    const server = await startServer({ ISTHMUS_SIGNIN_MAX_FAILURES: '5', ISTHMUS_SIGNIN_MAX_FAILURES_PER_IP: '1000', ISTHMUS_SIGNIN_WINDOW_SECONDS: '60' })
+    try {
+      // 20 guesses at once: each is charged before its password is checked, so only 5 get an answer.
+      const a = new Agent(server.url)
+      const results = await Promise.all(Array.from({ length: 20 }, (_, i) => a.post('/api/session', { email: 'root@example.org', password: `parallel-guess-${i}` })))
+      const statuses = results.map(r => r.status)
+      expect(statuses.filter(s => s !== 401 && s !== 429), 'only 401 and 429').toEqual([])
+      expect(statuses.filter(s => s === 401).length).toBeLessThanOrEqual(5)
+      expect(statuses.filter(s => s === 429).length).toBeGreaterThanOrEqual(15)
+      for (const r of results.filter(r => r.status === 429)) expect(Number(r.headers.get('retry-after'))).toBeGreaterThan(0)
+      // Refused attempts are not stored: the account holds exactly the failures that were answered 401.
+      const rows = await server.sql().execute({ sql: 'select count(*) as n from signin_failures where key = ?', args: ['account:root@example.org'] })
+      expect(Number(rows.rows[0]!.n)).toBe(statuses.filter(s => s === 401).length)
+      // Once 5 failures are stored even the right password waits for the window.
+      const failures = statuses.filter(s => s === 401).length
+      expect((await a.post('/api/session', { email: 'root@example.org', password: 'root-password-123' })).status).toBe(failures === 5 ? 429 : 200)
+    }
+    finally {
+      await server.dispose()
+    }
+  })
+})
+
 describe('mail over real loopback SMTP in both directions', () => {
   it('sends through SMTP_URL to an outside SMTP server', async () => {
     const port = await freePort()
