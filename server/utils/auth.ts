@@ -50,14 +50,16 @@ export async function requireActor(event: H3Event): Promise<Actor> {
 }
 
 /**
- * Authenticates, then authorizes: the member must hold `required` (admins pass every check;
- * `viewer` means any signed-in member). Call it first in every handler, before reading a body.
- * @throws 401 (not signed in) or 403 (signed in, role too low).
+ * Authenticates, then authorizes: the member must hold `required`, or one of the roles listed
+ * (admins pass every check; `viewer` means any signed-in member). Call it first in every handler,
+ * before reading a body.
+ * @throws 401 (not signed in) or 403 (signed in, role not allowed).
  */
-export async function requireRole(event: H3Event, required: Role): Promise<Actor> {
+export async function requireRole(event: H3Event, required: Role | readonly Role[]): Promise<Actor> {
   const actor = await requireActor(event)
   if (!roleSatisfies(actor.role, required)) {
-    throw createError({ status: 403, statusText: 'Forbidden', message: `This needs the ${required} role` })
+    const needed = typeof required === 'string' ? `the ${required} role` : `one of the roles ${required.join(', ')}`
+    throw createError({ status: 403, statusText: 'Forbidden', message: `This needs ${needed}` })
   }
   return actor
 }

@@ -340,16 +340,21 @@ describe('object records: attach, review, supersede, export, mail', () => {
     expect(txt.text).toMatch(/Cautions:\n- Every value is a model estimate/)
   })
 
-  it('comments on an attachment and mails followers who want comment mails', async () => {
+  it('comments on an attachment (reviewers ask, analysts answer, viewers only read) and mails followers who want comment mails', async () => {
     const a = (await as.viewer.get(`/api/objects/${recordId}`)).json.currentValues[0]
-    expect((await as.viewer.post(`/api/attachments/${a.id}/comments`, { body: '' })).status).toBe(422)
-    const res = await as.viewer.post(`/api/attachments/${a.id}/comments`, { body: 'Which mesh version is this?' })
+    const before = (await as.viewer.get(`/api/attachments/${a.id}/comments`)).json.items.length
+    expect((await as.viewer.post(`/api/attachments/${a.id}/comments`, { body: 'A viewer may not write this' })).status).toBe(403)
+    expect((await as.reviewer.post(`/api/attachments/${a.id}/comments`, { body: '' })).status).toBe(422)
+    const res = await as.reviewer.post(`/api/attachments/${a.id}/comments`, { body: 'Which mesh version is this?' })
     expect(res.status).toBe(201)
     const mail = await latestMailTo(as.admin, 'second.reviewer@example.org')
     expect(mail.subject).toContain('New comment')
     expect(mail.text).toContain('Which mesh version is this?')
+    expect((await as.analyst.post(`/api/attachments/${a.id}/comments`, { body: 'The second upload of the mesh.' })).status).toBe(201)
     const thread = (await as.viewer.get(`/api/attachments/${a.id}/comments`)).json.items
-    expect(thread.at(-1)).toMatchObject({ kind: 'comment', body: 'Which mesh version is this?', author: { id: ids.viewer } })
+    expect(thread.length).toBe(before + 2)
+    expect(thread.at(-2)).toMatchObject({ kind: 'comment', body: 'Which mesh version is this?', author: { id: ids.reviewer } })
+    expect(thread.at(-1)).toMatchObject({ kind: 'comment', body: 'The second upload of the mesh.', author: { id: ids.analyst } })
     expect((await reviewer2.delete(`/api/objects/${recordId}/follow`)).json).toEqual({ following: false })
   })
 

@@ -1,13 +1,14 @@
 import { eq } from 'drizzle-orm'
 import { idParamSchema } from '#shared/types/account'
 import { attachmentCommentSchema } from '#shared/types/records'
+import { COMMENT_ROLES } from '#shared/types/roles'
 
 /**
- * Comment on an attachment (any member: a comment changes no value). Followers of the record who
- * want comment mails are told.
+ * Comment on an attachment: reviewers discuss a value, analysts answer (admins too); viewers read
+ * only. Followers of the record who want comment mails are told.
  */
 export default defineEventHandler(async (event) => {
-  const actor = await requireRole(event, 'viewer')
+  const actor = await requireRole(event, COMMENT_ROLES)
   const { id } = paramsAs(event, idParamSchema)
   const { body } = await readBodyAs(event, attachmentCommentSchema)
   const db = useDB()
