@@ -32,9 +32,10 @@ describe('sign-in, sessions, invitations and password resets', () => {
     const cookie = res.headers.getSetCookie().join(';')
     expect(cookie).not.toMatch(/root@example\.org|admin/)
     expect(cookie.length).toBeLessThan(4096)
-    // nuxt-auth-utils exposes the sealed session's content: only id and name.
+    // nuxt-auth-utils exposes the sealed session's content: only id, name and sign-in time.
     const raw = await a.get('/api/_auth/session')
-    expect(Object.keys(raw.json.user).sort()).toEqual(['id', 'name'])
+    expect(Object.keys(raw.json.user).sort()).toEqual(['id', 'name', 'signedInAt'])
+    expect(Math.abs(raw.json.user.signedInAt - Date.now())).toBeLessThan(60_000)
     expect((await a.get('/api/session')).json.user.email).toBe('root@example.org')
     expect((await a.delete('/api/session')).status).toBe(200)
     expect((await a.get('/api/session')).json).toEqual({ user: null })
@@ -130,6 +131,41 @@ describe('sign-in, sessions, invitations and password resets', () => {
       expect(String(u.password_hash)).not.toContain('password')
       expect(String(u.password_hash)).toMatch(/^\$scrypt\$/)
     }
+  })
+
+  it('signs out every other session on a password reset or change; the member changing it stays signed in', async () => {
+    const email = 'two-tabs@example.org'
+    await admin.post('/api/invitations', { email, role: 'reviewer' })
+    const joinToken = linkIn((await latestMailTo(admin, email)).text).split('/join/')[1]!
+    expect((await new Agent(server.url).post(`/api/join/${joinToken}`, { name: 'Two Tabs', password: 'two-tabs-pass-1' })).status).toBe(200)
+    const laptop = new Agent(server.url)
+    const phone = new Agent(server.url)
+    await laptop.signIn(email, 'two-tabs-pass-1')
+    await phone.signIn(email, 'two-tabs-pass-1')
+    expect((await phone.get('/api/account')).status).toBe(200)
+
+    // Reset through the mail link, from neither session.
+    const anon = new Agent(server.url)
+    expect((await anon.post('/api/password-resets', { email })).status).toBe(202)
+    const mail = await latestMailTo(admin, email)
+    expect(mail.subject).toMatch(/reset/i)
+    const token = linkIn(mail.text).split('/reset/')[1]!
+    expect((await anon.post(`/api/password-resets/${token}`, { password: 'two-tabs-pass-2' })).status).toBe(200)
+    expect((await laptop.get('/api/account')).status).toBe(401)
+    expect((await phone.get('/api/account')).status).toBe(401)
+    expect((await phone.get('/api/session')).json).toEqual({ user: null })
+
+    // A change from one session keeps that session and ends the other.
+    await laptop.signIn(email, 'two-tabs-pass-2')
+    await phone.signIn(email, 'two-tabs-pass-2')
+    const changed = await laptop.post('/api/account/password', { currentPassword: 'two-tabs-pass-2', newPassword: 'two-tabs-pass-3' })
+    expect(changed.status).toBe(200)
+    expect((await laptop.get('/api/account')).status).toBe(200)
+    expect((await phone.get('/api/account')).status).toBe(401)
+    // The re-issued cookie still holds only id, name and sign-in time.
+    expect(Object.keys((await laptop.get('/api/_auth/session')).json.user).sort()).toEqual(['id', 'name', 'signedInAt'])
+    await phone.signIn(email, 'two-tabs-pass-3')
+    expect((await phone.get('/api/account')).status).toBe(200)
   })
 
   it('takes away access at once when a member is deactivated or demoted', async () => {
