@@ -1,3 +1,4 @@
+import { createServer as createNetServer, type Socket } from 'node:net'
 import { SMTPServer } from 'smtp-server'
 import { createTransport } from 'nodemailer'
 import { simpleParser } from 'mailparser'
@@ -168,6 +169,17 @@ describe('sign-in, sessions, invitations and password resets', () => {
     expect((await phone.get('/api/account')).status).toBe(200)
   })
 
+  it('throttles password-reset requests per address with a retry time, the same for strangers', async () => {
+    const anon = new Agent(server.url)
+    // Default limit: 5 requests per address per window (README configuration table).
+    for (let i = 0; i < 5; i++) expect((await anon.post('/api/password-resets', { email: 'flood@example.org' })).status).toBe(202)
+    const blocked = await anon.post('/api/password-resets', { email: 'flood@example.org' })
+    expect(blocked.status).toBe(429)
+    expect(Number(blocked.headers.get('retry-after'))).toBeGreaterThan(0)
+    // Another address from the same client is still answered.
+    expect((await anon.post('/api/password-resets', { email: 'other-flood@example.org' })).status).toBe(202)
+  })
+
   it('takes away access at once when a member is deactivated or demoted', async () => {
     const email = 'short-lived@example.org'
     await admin.post('/api/invitations', { email, role: 'admin' })
@@ -230,6 +242,54 @@ describe('sign-in rate limit under parallel guesses', () => {
     }
     finally {
       await server.dispose()
+    }
+  })
+})
+
+describe('password-reset requests do not wait for the mail', () => {
+  it('answers 202 at once for a member while SMTP stalls, audits the failed mail, and throttles per client address', async () => {
+    // An SMTP server that accepts connections, says nothing for 1.5 s, then hangs up.
+    const port = await freePort()
+    const sockets = new Set<Socket>()
+    const stalling = createNetServer((socket) => {
+      sockets.add(socket)
+      setTimeout(() => socket.destroy(), 1500)
+    })
+    await new Promise<void>(r => stalling.listen(port, '127.0.0.1', () => r()))
+    const server = await startServer({ SMTP_URL: `smtp://127.0.0.1:${port}?ignoreTLS=true`, ISTHMUS_PASSWORD_RESET_MAX_PER_IP: '3' })
+    try {
+      const anon = new Agent(server.url)
+      const started = Date.now()
+      const member = await anon.post('/api/password-resets', { email: 'root@example.org' })
+      const memberMs = Date.now() - started
+      expect(member.status).toBe(202)
+      // Waiting for the mail would take at least the 1.5 s stall.
+      expect(memberMs).toBeLessThan(1000)
+      const stranger = await anon.post('/api/password-resets', { email: 'stranger@example.org' })
+      expect(stranger.status).toBe(202)
+      expect(stranger.json).toEqual(member.json)
+
+      const admin = new Agent(server.url)
+      await admin.signIn('root@example.org', 'root-password-123')
+      const deadline = Date.now() + 10_000
+      let actions: string[] = []
+      while (!actions.includes('password-reset.mail-failed') && Date.now() < deadline) {
+        actions = (await admin.get('/api/audit?limit=50')).json.items.map((e: { action: string }) => e.action)
+        await new Promise(r => setTimeout(r, 200))
+      }
+      expect(actions).toContain('password-reset.mail-failed')
+      expect(actions).not.toContain('password-reset.requested')
+
+      // Limit of 3 per client address here: the third is answered, the fourth refused.
+      expect((await anon.post('/api/password-resets', { email: 'third@example.org' })).status).toBe(202)
+      const blocked = await anon.post('/api/password-resets', { email: 'fourth@example.org' })
+      expect(blocked.status).toBe(429)
+      expect(Number(blocked.headers.get('retry-after'))).toBeGreaterThan(0)
+    }
+    finally {
+      await server.dispose()
+      for (const s of sockets) s.destroy()
+      await new Promise<void>(r => stalling.close(() => r()))
     }
   })
 })
