@@ -1,3 +1,4 @@
+import { request as httpRequest } from 'node:http'
 import { createServer as createNetServer, type Socket } from 'node:net'
 import { SMTPServer } from 'smtp-server'
 import { createTransport } from 'nodemailer'
@@ -5,6 +6,18 @@ import { simpleParser } from 'mailparser'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { Agent, latestMailTo, linkIn } from './support/http'
 import { freePort, startServer, type RunningServer } from './support/server'
+
+/** A request over node:http, which (unlike fetch) sends the Host header given. */
+function rawRequest(port: number, method: string, path: string, headers: Record<string, string>, body: string): Promise<{ status: number }> {
+  return new Promise((resolve, reject) => {
+    const req = httpRequest({ host: '127.0.0.1', port, method, path, headers }, (res) => {
+      res.resume()
+      res.on('end', () => resolve({ status: res.statusCode ?? 0 }))
+    })
+    req.on('error', reject)
+    req.end(body)
+  })
+}
 
 describe('sign-in, sessions, invitations and password resets', () => {
   let server: RunningServer
@@ -82,6 +95,21 @@ describe('sign-in, sessions, invitations and password resets', () => {
     expect(same.status).toBe(200)
     // Reads are not state-changing and pass with any Origin.
     expect((await a.get('/api/health', { origin: 'https://evil.example' })).status).toBe(200)
+
+    // Every path is checked, not only /api/*.
+    expect((await a.post('/lobes', 'x', { origin: 'https://evil.example' })).status).toBe(403)
+    expect((await a.request('DELETE', '/objects/1', undefined, { origin: 'https://evil.example' })).status).toBe(403)
+    // The public URL here is http://127.0.0.1:PORT: its loopback aliases on the same port pass
+    // (422: past the Origin check, the empty body is refused), another port does not.
+    for (const alias of [`http://localhost:${server.port}`, `http://[::1]:${server.port}`]) {
+      expect((await a.post('/api/session', {}, { origin: alias })).status, alias).toBe(422)
+    }
+    expect((await a.post('/api/session', {}, { origin: `http://127.0.0.1:${server.port + 1}` })).status).toBe(403)
+    // An Origin matching a forged Host header (DNS rebinding) is not this server's origin.
+    const rebound = await rawRequest(server.port, 'POST', '/api/session', { host: `rebound.example:${server.port}`, origin: `http://rebound.example:${server.port}`, 'content-type': 'application/json' }, '{}')
+    expect(rebound.status).toBe(403)
+    const own = await rawRequest(server.port, 'POST', '/api/session', { host: `127.0.0.1:${server.port}`, origin: server.url, 'content-type': 'application/json' }, '{}')
+    expect(own.status).toBe(422)
   })
 
   it('resets a password by mail over local SMTP; the link works once; an expired link is refused; only hashes are stored', async () => {
