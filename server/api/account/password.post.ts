@@ -16,8 +16,10 @@ export default defineEventHandler(async (event) => {
   }
   const passwordHash = await hashPassword(newPassword)
   const changedAt = new Date()
-  await db.update(schema.users).set({ passwordHash, credentialsChangedAt: changedAt }).where(eq(schema.users.id, actor.id))
+  await db.transaction(async (tx) => {
+    await tx.update(schema.users).set({ passwordHash, credentialsChangedAt: changedAt }).where(eq(schema.users.id, actor.id))
+    await audit(event, { actorId: actor.id, action: 'account.password-changed', subjectType: 'user', subjectId: actor.id }, tx)
+  })
   if (actor.via === 'session') await startSession(event, user, changedAt.getTime())
-  await audit(event, { actorId: actor.id, action: 'account.password-changed', subjectType: 'user', subjectId: actor.id })
   return { ok: true }
 })
