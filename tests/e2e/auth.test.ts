@@ -247,6 +247,27 @@ describe('sign-in rate limit per client address', () => {
   })
 })
 
+describe('client address behind a reverse proxy', () => {
+  it('takes the rightmost X-Forwarded-For entry (the proxy\'s), so a forged leftmost one changes nothing', async () => {
+    const server = await startServer({ ISTHMUS_TRUST_PROXY: '1', ISTHMUS_SIGNIN_MAX_FAILURES: '100', ISTHMUS_SIGNIN_MAX_FAILURES_PER_IP: '2', ISTHMUS_SIGNIN_WINDOW_SECONDS: '60' })
+    try {
+      const a = new Agent(server.url)
+      // The client forges a new leftmost entry each time; the proxy appends the real address.
+      const viaProxy = (forged: string, real: string) => ({ 'x-forwarded-for': `${forged}, ${real}` })
+      for (let i = 0; i < 2; i++) {
+        expect((await a.post('/api/session', { email: `guess${i}@example.org`, password: 'guess-guess' }, viaProxy(`198.51.100.${i}`, '203.0.113.7'))).status).toBe(401)
+      }
+      expect((await a.post('/api/session', { email: 'guess9@example.org', password: 'guess-guess' }, viaProxy('198.51.100.99', '203.0.113.7'))).status).toBe(429)
+      expect((await a.post('/api/session', { email: 'guess9@example.org', password: 'guess-guess' }, viaProxy('198.51.100.99', '203.0.113.8'))).status).toBe(401)
+      const ips = (await server.sql().execute(`select distinct ip from audit_events where action = 'session.failed' order by ip`)).rows.map(r => r.ip)
+      expect(ips).toEqual(['203.0.113.7', '203.0.113.8'])
+    }
+    finally {
+      await server.dispose()
+    }
+  })
+})
+
 describe('sign-in rate limit under parallel guesses', () => {
   it('lets at most the allowed number of parallel bad sign-ins reach the password check', async () => {
     const server = await startServer({ ISTHMUS_SIGNIN_MAX_FAILURES: '5', ISTHMUS_SIGNIN_MAX_FAILURES_PER_IP: '1000', ISTHMUS_SIGNIN_WINDOW_SECONDS: '60' })
