@@ -367,6 +367,12 @@ describe('object records: attach, review, supersede, export, mail', () => {
     expect((await bot.get(`/api/objects/${recordId}/export.csv`)).status).toBe(200)
     expect((await bot.get(`/api/objects/${recordId}/export.txt`)).status).toBe(200)
     expect(await count(`select count(*) from audit_events where action = 'record.exported' and actor_id = ? and subject_id = ?`, [ids.viewer, String(recordId)])).toBe(3)
+    // Lobe exports by token are audited the same way; exports in a session are not.
+    expect((await bot.get(`/api/lobes/${lobeDense.id}/export.json`)).status).toBe(200)
+    expect((await bot.get(`/api/lobes/${lobeDense.id}/export.csv`)).status).toBe(200)
+    expect((await as.viewer.get(`/api/lobes/${lobeDense.id}/export.csv`)).status).toBe(200)
+    const lobeExports = await server.sql().execute({ sql: `select detail from audit_events where action = 'lobe.exported' and actor_id = ? and subject_id = ? order by id`, args: [ids.viewer, String(lobeDense.id)] })
+    expect(lobeExports.rows.map(r => JSON.parse(String(r.detail)))).toEqual([{ format: 'json', token: created.json.id }, { format: 'csv', token: created.json.id }])
     expect((await bot.post('/api/objects', { designation: '2047 TK1', name: 'Token' })).status).toBe(403)
     expect((await bot.patch(`/api/objects/${recordId}`, { notes: 'by token' })).status).toBe(403)
     expect((await bot.post(`/api/objects/${recordId}/attachments`, { lobe: lobeDense.id, quantities: ['mass'] })).status).toBe(403)
