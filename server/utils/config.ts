@@ -50,7 +50,8 @@ export function useConfig(): IsthmusConfig {
   const dataDir = databaseUrl.startsWith('file:')
     ? dirname(resolve(databaseUrl.slice('file:'.length).replace(/^\/\/(localhost)?(?=\/)/, '')))
     : resolve('./data')
-  const port = process.env.PORT || process.env.NITRO_PORT || '3000'
+  // Same order as Nitro's node server, so the default public URL names the port it listens on.
+  const port = process.env.NITRO_PORT || process.env.PORT || '3000'
   cached = {
     databaseUrl,
     databaseAuthToken: process.env.DATABASE_AUTH_TOKEN || undefined,
