@@ -106,9 +106,9 @@ describe('sign-in, sessions, invitations and password resets', () => {
     }
     expect((await a.post('/api/session', {}, { origin: `http://127.0.0.1:${server.port + 1}` })).status).toBe(403)
     // An Origin matching a forged Host header (DNS rebinding) is not this server's origin.
-    const rebound = await rawRequest(server.port, 'POST', '/api/session', { host: `rebound.example:${server.port}`, origin: `http://rebound.example:${server.port}`, 'content-type': 'application/json' }, '{}')
+    const rebound = await rawRequest(server.port, 'POST', '/api/session', { 'host': `rebound.example:${server.port}`, 'origin': `http://rebound.example:${server.port}`, 'content-type': 'application/json' }, '{}')
     expect(rebound.status).toBe(403)
-    const own = await rawRequest(server.port, 'POST', '/api/session', { host: `127.0.0.1:${server.port}`, origin: server.url, 'content-type': 'application/json' }, '{}')
+    const own = await rawRequest(server.port, 'POST', '/api/session', { 'host': `127.0.0.1:${server.port}`, 'origin': server.url, 'content-type': 'application/json' }, '{}')
     expect(own.status).toBe(422)
   })
 
