@@ -24,10 +24,16 @@ if (!existsSync(entry) || statSync(entry).mtimeMs < Math.max(...SOURCES.map(newe
 const env = {
   ...process.env,
   ISTHMUS_DEMO: '1',
+  // The demo admin's password is published: listen on this machine only unless HOST says otherwise.
+  HOST: process.env.HOST || '127.0.0.1',
   PORT: process.env.PORT || '3000',
   DATABASE_URL: process.env.DATABASE_URL || 'file:./data/isthmus.db',
 }
-console.info(`[demo] Isthmus on http://localhost:${env.PORT} — sign in as admin@example.org / isthmus-demo`)
+const shownHost = env.HOST === '127.0.0.1' ? 'localhost' : env.HOST
+console.info(`[demo] Isthmus on http://${shownHost}:${env.PORT} — sign in as admin@example.org / isthmus-demo`)
+if (env.HOST !== '127.0.0.1' && env.HOST !== 'localhost' && env.HOST !== '::1') {
+  console.warn(`[demo] listening on ${env.HOST}: other machines can reach the demo accounts, whose password is public`)
+}
 const child = spawn(process.execPath, [entry], { stdio: 'inherit', env })
 for (const sig of ['SIGINT', 'SIGTERM']) process.on(sig, () => child.kill(sig))
 child.on('exit', code => process.exit(code ?? 0))

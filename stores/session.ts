@@ -15,7 +15,7 @@ export const useSessionStore = defineStore('session', {
   state: () => ({ member: null as SessionMember | null, loaded: false }),
   getters: {
     signedIn: s => !!s.member,
-    can: s => (required: Role) => !!s.member && roleSatisfies(s.member.role, required),
+    can: s => (required: Role | readonly Role[]) => !!s.member && roleSatisfies(s.member.role, required),
   },
   actions: {
     async refresh() {

@@ -8,18 +8,20 @@ let decoyHash: Promise<string> | undefined
 export default defineEventHandler(async (event) => {
   const { email, password } = await readBodyAs(event, signInSchema)
   const ip = clientIp(event)
-  const keys = [`account:${email}`, `ip:${ip}`]
-  await assertSigninAllowed(event, keys)
+  const accountKey = `account:${email}`
+  // Charged before the (slow) password check, so parallel guesses cannot all slip under the limit.
+  const attempt = await takeSigninAttempt(event, accountKey, `ip:${ip}`)
   const db = useDB()
   const user = await db.select().from(schema.users).where(eq(schema.users.email, email)).get()
   decoyHash ??= hashPassword(newToken())
   const ok = user ? await verifyPassword(user.passwordHash, password) : (await verifyPassword(await decoyHash, password), false)
   if (!user || !ok || !user.active) {
-    await recordSigninFailure(keys)
+    await pruneSigninFailures()
     await audit(event, { actorId: user?.id ?? null, action: 'session.failed', detail: { email } })
     throw createError({ status: 401, statusText: 'Unauthorized', message: 'E-mail or password is not right, or the account is not active' })
   }
-  await clearSigninFailures(keys[0]!)
+  await releaseAttempt(attempt)
+  await clearSigninFailures(accountKey)
   const [signedIn] = await db.update(schema.users).set({ lastSignInAt: new Date() }).where(eq(schema.users.id, user.id)).returning()
   await startSession(event, user)
   await audit(event, { actorId: user.id, action: 'session.signed-in' })

@@ -12,6 +12,8 @@ export const users = sqliteTable('users', {
   passwordHash: text('password_hash').notNull(),
   active: integer('active', { mode: 'boolean' }).notNull().default(true),
   lastSignInAt: integer('last_sign_in_at', { mode: 'timestamp_ms' }),
+  /** Last password change or reset: sessions signed in before it are refused. */
+  credentialsChangedAt: integer('credentials_changed_at', { mode: 'timestamp_ms' }),
   createdAt: createdAt(),
 }, t => [uniqueIndex('users_email_unique').on(t.email)])
 

@@ -1,23 +1,40 @@
-import { getRequestURL } from 'h3'
-
 const SAFE = new Set(['GET', 'HEAD', 'OPTIONS'])
+const LOOPBACK = ['localhost', '127.0.0.1', '[::1]']
+
+let allowed: Set<string> | undefined
 
 /**
- * Rejects cross-site state-changing requests. Browsers send `Origin` (and `Sec-Fetch-Site`) on
- * every POST/PATCH/PUT/DELETE; scripts with an API token usually send neither and pass.
+ * Origins the app is served from: the configured public URL only (never one built from the
+ * request's Host header, which a rebinding DNS name controls). When that URL is on loopback, its
+ * loopback aliases on the same scheme and port count too, so the app opened at localhost:PORT or
+ * 127.0.0.1:PORT works either way; only this machine can reach those.
+ */
+function allowedOrigins(): Set<string> {
+  if (allowed) return allowed
+  const url = new URL(useConfig().publicUrl)
+  allowed = new Set([url.origin])
+  if (LOOPBACK.includes(url.hostname)) {
+    for (const host of LOOPBACK) allowed.add(`${url.protocol}//${host}${url.port ? `:${url.port}` : ''}`)
+  }
+  return allowed
+}
+
+/**
+ * Rejects cross-site state-changing requests on every path. Browsers send `Origin` (and
+ * `Sec-Fetch-Site`) on every POST/PATCH/PUT/DELETE; scripts with an API token usually send
+ * neither and pass.
  */
 export default defineEventHandler((event) => {
-  if (SAFE.has(event.method) || !event.path.startsWith('/api/')) return
+  if (SAFE.has(event.method)) return
   const site = getRequestHeader(event, 'sec-fetch-site')
   const origin = getRequestHeader(event, 'origin')
   if (!origin) {
     if (site === 'cross-site') throw forbiddenOrigin()
     return
   }
-  const allowed = new Set([new URL(useConfig().publicUrl).origin, getRequestURL(event).origin])
-  if (origin === 'null' || !allowed.has(origin)) throw forbiddenOrigin()
+  if (origin === 'null' || !allowedOrigins().has(origin)) throw forbiddenOrigin()
 })
 
 function forbiddenOrigin() {
-  return createError({ status: 403, statusText: 'Forbidden', message: 'Cross-site request refused (Origin does not match this server)' })
+  return createError({ status: 403, statusText: 'Forbidden', message: 'Cross-site request refused (Origin is not this server\'s public URL)' })
 }

@@ -20,6 +20,14 @@ export async function audit(event: H3Event | null, input: AuditInput, db: Pick<D
   })
 }
 
+/**
+ * The client's address. With `ISTHMUS_TRUST_PROXY=1` it is the rightmost `X-Forwarded-For` entry:
+ * the one our reverse proxy appended. Entries to its left come from the client and can be forged.
+ */
 export function clientIp(event: H3Event): string {
-  return getRequestIP(event, { xForwardedFor: process.env.ISTHMUS_TRUST_PROXY === '1' }) ?? 'unknown'
+  if (process.env.ISTHMUS_TRUST_PROXY === '1') {
+    const hops = (getRequestHeader(event, 'x-forwarded-for') ?? '').split(',').map(h => h.trim()).filter(Boolean)
+    if (hops.length) return hops.at(-1)!
+  }
+  return getRequestIP(event) ?? 'unknown'
 }

@@ -28,6 +28,10 @@ export interface IsthmusConfig {
   maxUploadBytes: number
   invitationTtlMs: number
   passwordResetTtlMs: number
+  /** Password-reset requests allowed per e-mail address, and per client address, within the window. */
+  passwordResetMaxPerAddress: number
+  passwordResetMaxPerIp: number
+  passwordResetWindowMs: number
 }
 
 function int(name: string, fallback: number): number {
@@ -46,7 +50,8 @@ export function useConfig(): IsthmusConfig {
   const dataDir = databaseUrl.startsWith('file:')
     ? dirname(resolve(databaseUrl.slice('file:'.length).replace(/^\/\/(localhost)?(?=\/)/, '')))
     : resolve('./data')
-  const port = process.env.PORT || process.env.NITRO_PORT || '3000'
+  // Same order as Nitro's node server, so the default public URL names the port it listens on.
+  const port = process.env.NITRO_PORT || process.env.PORT || '3000'
   cached = {
     databaseUrl,
     databaseAuthToken: process.env.DATABASE_AUTH_TOKEN || undefined,
@@ -63,6 +68,9 @@ export function useConfig(): IsthmusConfig {
     maxUploadBytes: int('ISTHMUS_MAX_UPLOAD_MB', 512) * 1024 * 1024,
     invitationTtlMs: int('ISTHMUS_INVITATION_TTL_HOURS', 7 * 24) * 3600_000,
     passwordResetTtlMs: int('ISTHMUS_PASSWORD_RESET_TTL_MINUTES', 60) * 60_000,
+    passwordResetMaxPerAddress: int('ISTHMUS_PASSWORD_RESET_MAX_PER_ADDRESS', 5),
+    passwordResetMaxPerIp: int('ISTHMUS_PASSWORD_RESET_MAX_PER_IP', 20),
+    passwordResetWindowMs: int('ISTHMUS_PASSWORD_RESET_WINDOW_MINUTES', 60) * 60_000,
   }
   return cached
 }

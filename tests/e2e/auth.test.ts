@@ -1,9 +1,23 @@
+import { request as httpRequest } from 'node:http'
+import { createServer as createNetServer, type Socket } from 'node:net'
 import { SMTPServer } from 'smtp-server'
 import { createTransport } from 'nodemailer'
 import { simpleParser } from 'mailparser'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { Agent, latestMailTo, linkIn } from './support/http'
 import { freePort, startServer, type RunningServer } from './support/server'
+
+/** A request over node:http, which (unlike fetch) sends the Host header given. */
+function rawRequest(port: number, method: string, path: string, headers: Record<string, string>, body: string): Promise<{ status: number }> {
+  return new Promise((resolve, reject) => {
+    const req = httpRequest({ host: '127.0.0.1', port, method, path, headers }, (res) => {
+      res.resume()
+      res.on('end', () => resolve({ status: res.statusCode ?? 0 }))
+    })
+    req.on('error', reject)
+    req.end(body)
+  })
+}
 
 describe('sign-in, sessions, invitations and password resets', () => {
   let server: RunningServer
@@ -32,9 +46,10 @@ describe('sign-in, sessions, invitations and password resets', () => {
     const cookie = res.headers.getSetCookie().join(';')
     expect(cookie).not.toMatch(/root@example\.org|admin/)
     expect(cookie.length).toBeLessThan(4096)
-    // nuxt-auth-utils exposes the sealed session's content: only id and name.
+    // nuxt-auth-utils exposes the sealed session's content: only id, name and sign-in time.
     const raw = await a.get('/api/_auth/session')
-    expect(Object.keys(raw.json.user).sort()).toEqual(['id', 'name'])
+    expect(Object.keys(raw.json.user).sort()).toEqual(['id', 'name', 'signedInAt'])
+    expect(Math.abs(raw.json.user.signedInAt - Date.now())).toBeLessThan(60_000)
     expect((await a.get('/api/session')).json.user.email).toBe('root@example.org')
     expect((await a.delete('/api/session')).status).toBe(200)
     expect((await a.get('/api/session')).json).toEqual({ user: null })
@@ -80,6 +95,21 @@ describe('sign-in, sessions, invitations and password resets', () => {
     expect(same.status).toBe(200)
     // Reads are not state-changing and pass with any Origin.
     expect((await a.get('/api/health', { origin: 'https://evil.example' })).status).toBe(200)
+
+    // Every path is checked, not only /api/*.
+    expect((await a.post('/lobes', 'x', { origin: 'https://evil.example' })).status).toBe(403)
+    expect((await a.request('DELETE', '/objects/1', undefined, { origin: 'https://evil.example' })).status).toBe(403)
+    // The public URL here is http://127.0.0.1:PORT: its loopback aliases on the same port pass
+    // (422: past the Origin check, the empty body is refused), another port does not.
+    for (const alias of [`http://localhost:${server.port}`, `http://[::1]:${server.port}`]) {
+      expect((await a.post('/api/session', {}, { origin: alias })).status, alias).toBe(422)
+    }
+    expect((await a.post('/api/session', {}, { origin: `http://127.0.0.1:${server.port + 1}` })).status).toBe(403)
+    // An Origin matching a forged Host header (DNS rebinding) is not this server's origin.
+    const rebound = await rawRequest(server.port, 'POST', '/api/session', { 'host': `rebound.example:${server.port}`, 'origin': `http://rebound.example:${server.port}`, 'content-type': 'application/json' }, '{}')
+    expect(rebound.status).toBe(403)
+    const own = await rawRequest(server.port, 'POST', '/api/session', { 'host': `127.0.0.1:${server.port}`, 'origin': server.url, 'content-type': 'application/json' }, '{}')
+    expect(own.status).toBe(422)
   })
 
   it('resets a password by mail over local SMTP; the link works once; an expired link is refused; only hashes are stored', async () => {
@@ -99,8 +129,8 @@ describe('sign-in, sessions, invitations and password resets', () => {
     expect(unknown.status).toBe(202)
     expect(known.status).toBe(202)
     expect(unknown.json.message).toBe(known.json.message)
-    const mail = await latestMailTo(admin, email)
-    expect(mail.subject).toMatch(/reset/i)
+    // The mail is sent after the answer: wait for it.
+    const mail = await latestMailTo(admin, email, 5000, m => /reset/i.test(m.subject))
     const token = linkIn(mail.text).split('/reset/')[1]!
     expect((await anon.get(`/api/password-resets/${token}`)).status).toBe(200)
     expect((await anon.post(`/api/password-resets/${token}`, { password: 'second-password-2' })).status).toBe(200)
@@ -110,8 +140,7 @@ describe('sign-in, sessions, invitations and password resets', () => {
 
     // An expired link: ask for another, then move its expiry into the past in the database.
     await anon.post('/api/password-resets', { email })
-    const mails = await admin.get('/api/mail-drop?limit=50')
-    const second = mails.json.items.filter((m: { envelopeTo: string[], subject: string }) => m.envelopeTo.includes(email) && /reset/i.test(m.subject))[0]
+    const second = await latestMailTo(admin, email, 5000, m => /reset/i.test(m.subject) && !m.text.includes(token))
     const token2 = linkIn(second.text).split('/reset/')[1]!
     expect(token2).not.toBe(token)
     await server.sql().execute('update password_resets set expires_at = 0 where used_at is null')
@@ -130,6 +159,51 @@ describe('sign-in, sessions, invitations and password resets', () => {
       expect(String(u.password_hash)).not.toContain('password')
       expect(String(u.password_hash)).toMatch(/^\$scrypt\$/)
     }
+  })
+
+  it('signs out every other session on a password reset or change; the member changing it stays signed in', async () => {
+    const email = 'two-tabs@example.org'
+    await admin.post('/api/invitations', { email, role: 'reviewer' })
+    const joinToken = linkIn((await latestMailTo(admin, email)).text).split('/join/')[1]!
+    expect((await new Agent(server.url).post(`/api/join/${joinToken}`, { name: 'Two Tabs', password: 'two-tabs-pass-1' })).status).toBe(200)
+    const laptop = new Agent(server.url)
+    const phone = new Agent(server.url)
+    await laptop.signIn(email, 'two-tabs-pass-1')
+    await phone.signIn(email, 'two-tabs-pass-1')
+    expect((await phone.get('/api/account')).status).toBe(200)
+
+    // Reset through the mail link, from neither session.
+    const anon = new Agent(server.url)
+    expect((await anon.post('/api/password-resets', { email })).status).toBe(202)
+    const mail = await latestMailTo(admin, email, 5000, m => /reset/i.test(m.subject))
+    const token = linkIn(mail.text).split('/reset/')[1]!
+    expect((await anon.post(`/api/password-resets/${token}`, { password: 'two-tabs-pass-2' })).status).toBe(200)
+    expect((await laptop.get('/api/account')).status).toBe(401)
+    expect((await phone.get('/api/account')).status).toBe(401)
+    expect((await phone.get('/api/session')).json).toEqual({ user: null })
+
+    // A change from one session keeps that session and ends the other.
+    await laptop.signIn(email, 'two-tabs-pass-2')
+    await phone.signIn(email, 'two-tabs-pass-2')
+    const changed = await laptop.post('/api/account/password', { currentPassword: 'two-tabs-pass-2', newPassword: 'two-tabs-pass-3' })
+    expect(changed.status).toBe(200)
+    expect((await laptop.get('/api/account')).status).toBe(200)
+    expect((await phone.get('/api/account')).status).toBe(401)
+    // The re-issued cookie still holds only id, name and sign-in time.
+    expect(Object.keys((await laptop.get('/api/_auth/session')).json.user).sort()).toEqual(['id', 'name', 'signedInAt'])
+    await phone.signIn(email, 'two-tabs-pass-3')
+    expect((await phone.get('/api/account')).status).toBe(200)
+  })
+
+  it('throttles password-reset requests per address with a retry time, the same for strangers', async () => {
+    const anon = new Agent(server.url)
+    // Default limit: 5 requests per address per window (README configuration table).
+    for (let i = 0; i < 5; i++) expect((await anon.post('/api/password-resets', { email: 'flood@example.org' })).status).toBe(202)
+    const blocked = await anon.post('/api/password-resets', { email: 'flood@example.org' })
+    expect(blocked.status).toBe(429)
+    expect(Number(blocked.headers.get('retry-after'))).toBeGreaterThan(0)
+    // Another address from the same client is still answered.
+    expect((await anon.post('/api/password-resets', { email: 'other-flood@example.org' })).status).toBe(202)
   })
 
   it('takes away access at once when a member is deactivated or demoted', async () => {
@@ -169,6 +243,100 @@ describe('sign-in rate limit per client address', () => {
     }
     finally {
       await server.dispose()
+    }
+  })
+})
+
+describe('client address behind a reverse proxy', () => {
+  it('takes the rightmost X-Forwarded-For entry (the proxy\'s), so a forged leftmost one changes nothing', async () => {
+    const server = await startServer({ ISTHMUS_TRUST_PROXY: '1', ISTHMUS_SIGNIN_MAX_FAILURES: '100', ISTHMUS_SIGNIN_MAX_FAILURES_PER_IP: '2', ISTHMUS_SIGNIN_WINDOW_SECONDS: '60' })
+    try {
+      const a = new Agent(server.url)
+      // The client forges a new leftmost entry each time; the proxy appends the real address.
+      const viaProxy = (forged: string, real: string) => ({ 'x-forwarded-for': `${forged}, ${real}` })
+      for (let i = 0; i < 2; i++) {
+        expect((await a.post('/api/session', { email: `guess${i}@example.org`, password: 'guess-guess' }, viaProxy(`198.51.100.${i}`, '203.0.113.7'))).status).toBe(401)
+      }
+      expect((await a.post('/api/session', { email: 'guess9@example.org', password: 'guess-guess' }, viaProxy('198.51.100.99', '203.0.113.7'))).status).toBe(429)
+      expect((await a.post('/api/session', { email: 'guess9@example.org', password: 'guess-guess' }, viaProxy('198.51.100.99', '203.0.113.8'))).status).toBe(401)
+      const ips = (await server.sql().execute(`select distinct ip from audit_events where action = 'session.failed' order by ip`)).rows.map(r => r.ip)
+      expect(ips).toEqual(['203.0.113.7', '203.0.113.8'])
+    }
+    finally {
+      await server.dispose()
+    }
+  })
+})
+
+describe('sign-in rate limit under parallel guesses', () => {
+  it('lets at most the allowed number of parallel bad sign-ins reach the password check', async () => {
+    const server = await startServer({ ISTHMUS_SIGNIN_MAX_FAILURES: '5', ISTHMUS_SIGNIN_MAX_FAILURES_PER_IP: '1000', ISTHMUS_SIGNIN_WINDOW_SECONDS: '60' })
+    try {
+      // 20 guesses at once: each is charged before its password is checked, so only 5 get an answer.
+      const a = new Agent(server.url)
+      const results = await Promise.all(Array.from({ length: 20 }, (_, i) => a.post('/api/session', { email: 'root@example.org', password: `parallel-guess-${i}` })))
+      const statuses = results.map(r => r.status)
+      expect(statuses.filter(s => s !== 401 && s !== 429), 'only 401 and 429').toEqual([])
+      expect(statuses.filter(s => s === 401).length).toBeLessThanOrEqual(5)
+      expect(statuses.filter(s => s === 429).length).toBeGreaterThanOrEqual(15)
+      for (const r of results.filter(r => r.status === 429)) expect(Number(r.headers.get('retry-after'))).toBeGreaterThan(0)
+      // Refused attempts are not stored: the account holds exactly the failures that were answered 401.
+      const rows = await server.sql().execute({ sql: 'select count(*) as n from signin_failures where key = ?', args: ['account:root@example.org'] })
+      expect(Number(rows.rows[0]!.n)).toBe(statuses.filter(s => s === 401).length)
+      // Once 5 failures are stored even the right password waits for the window.
+      const failures = statuses.filter(s => s === 401).length
+      expect((await a.post('/api/session', { email: 'root@example.org', password: 'root-password-123' })).status).toBe(failures === 5 ? 429 : 200)
+    }
+    finally {
+      await server.dispose()
+    }
+  })
+})
+
+describe('password-reset requests do not wait for the mail', () => {
+  it('answers 202 at once for a member while SMTP stalls, audits the failed mail, and throttles per client address', async () => {
+    // An SMTP server that accepts connections, says nothing for 1.5 s, then hangs up.
+    const port = await freePort()
+    const sockets = new Set<Socket>()
+    const stalling = createNetServer((socket) => {
+      sockets.add(socket)
+      setTimeout(() => socket.destroy(), 1500)
+    })
+    await new Promise<void>(r => stalling.listen(port, '127.0.0.1', () => r()))
+    const server = await startServer({ SMTP_URL: `smtp://127.0.0.1:${port}?ignoreTLS=true`, ISTHMUS_PASSWORD_RESET_MAX_PER_IP: '3' })
+    try {
+      const anon = new Agent(server.url)
+      const started = Date.now()
+      const member = await anon.post('/api/password-resets', { email: 'root@example.org' })
+      const memberMs = Date.now() - started
+      expect(member.status).toBe(202)
+      // Waiting for the mail would take at least the 1.5 s stall.
+      expect(memberMs).toBeLessThan(1000)
+      const stranger = await anon.post('/api/password-resets', { email: 'stranger@example.org' })
+      expect(stranger.status).toBe(202)
+      expect(stranger.json).toEqual(member.json)
+
+      const admin = new Agent(server.url)
+      await admin.signIn('root@example.org', 'root-password-123')
+      const deadline = Date.now() + 10_000
+      let actions: string[] = []
+      while (!actions.includes('password-reset.mail-failed') && Date.now() < deadline) {
+        actions = (await admin.get('/api/audit?limit=50')).json.items.map((e: { action: string }) => e.action)
+        await new Promise(r => setTimeout(r, 200))
+      }
+      expect(actions).toContain('password-reset.mail-failed')
+      expect(actions).not.toContain('password-reset.requested')
+
+      // Limit of 3 per client address here: the third is answered, the fourth refused.
+      expect((await anon.post('/api/password-resets', { email: 'third@example.org' })).status).toBe(202)
+      const blocked = await anon.post('/api/password-resets', { email: 'fourth@example.org' })
+      expect(blocked.status).toBe(429)
+      expect(Number(blocked.headers.get('retry-after'))).toBeGreaterThan(0)
+    }
+    finally {
+      await server.dispose()
+      for (const s of sockets) s.destroy()
+      await new Promise<void>(r => stalling.close(() => r()))
     }
   })
 })

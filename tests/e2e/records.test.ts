@@ -340,16 +340,21 @@ describe('object records: attach, review, supersede, export, mail', () => {
     expect(txt.text).toMatch(/Cautions:\n- Every value is a model estimate/)
   })
 
-  it('comments on an attachment and mails followers who want comment mails', async () => {
+  it('comments on an attachment (reviewers ask, analysts answer, viewers only read) and mails followers who want comment mails', async () => {
     const a = (await as.viewer.get(`/api/objects/${recordId}`)).json.currentValues[0]
-    expect((await as.viewer.post(`/api/attachments/${a.id}/comments`, { body: '' })).status).toBe(422)
-    const res = await as.viewer.post(`/api/attachments/${a.id}/comments`, { body: 'Which mesh version is this?' })
+    const before = (await as.viewer.get(`/api/attachments/${a.id}/comments`)).json.items.length
+    expect((await as.viewer.post(`/api/attachments/${a.id}/comments`, { body: 'A viewer may not write this' })).status).toBe(403)
+    expect((await as.reviewer.post(`/api/attachments/${a.id}/comments`, { body: '' })).status).toBe(422)
+    const res = await as.reviewer.post(`/api/attachments/${a.id}/comments`, { body: 'Which mesh version is this?' })
     expect(res.status).toBe(201)
     const mail = await latestMailTo(as.admin, 'second.reviewer@example.org')
     expect(mail.subject).toContain('New comment')
     expect(mail.text).toContain('Which mesh version is this?')
+    expect((await as.analyst.post(`/api/attachments/${a.id}/comments`, { body: 'The second upload of the mesh.' })).status).toBe(201)
     const thread = (await as.viewer.get(`/api/attachments/${a.id}/comments`)).json.items
-    expect(thread.at(-1)).toMatchObject({ kind: 'comment', body: 'Which mesh version is this?', author: { id: ids.viewer } })
+    expect(thread.length).toBe(before + 2)
+    expect(thread.at(-2)).toMatchObject({ kind: 'comment', body: 'Which mesh version is this?', author: { id: ids.reviewer } })
+    expect(thread.at(-1)).toMatchObject({ kind: 'comment', body: 'The second upload of the mesh.', author: { id: ids.analyst } })
     expect((await reviewer2.delete(`/api/objects/${recordId}/follow`)).json).toEqual({ following: false })
   })
 
@@ -362,6 +367,12 @@ describe('object records: attach, review, supersede, export, mail', () => {
     expect((await bot.get(`/api/objects/${recordId}/export.csv`)).status).toBe(200)
     expect((await bot.get(`/api/objects/${recordId}/export.txt`)).status).toBe(200)
     expect(await count(`select count(*) from audit_events where action = 'record.exported' and actor_id = ? and subject_id = ?`, [ids.viewer, String(recordId)])).toBe(3)
+    // Lobe exports by token are audited the same way; exports in a session are not.
+    expect((await bot.get(`/api/lobes/${lobeDense.id}/export.json`)).status).toBe(200)
+    expect((await bot.get(`/api/lobes/${lobeDense.id}/export.csv`)).status).toBe(200)
+    expect((await as.viewer.get(`/api/lobes/${lobeDense.id}/export.csv`)).status).toBe(200)
+    const lobeExports = await server.sql().execute({ sql: `select detail from audit_events where action = 'lobe.exported' and actor_id = ? and subject_id = ? order by id`, args: [ids.viewer, String(lobeDense.id)] })
+    expect(lobeExports.rows.map(r => JSON.parse(String(r.detail)))).toEqual([{ format: 'json', token: created.json.id }, { format: 'csv', token: created.json.id }])
     expect((await bot.post('/api/objects', { designation: '2047 TK1', name: 'Token' })).status).toBe(403)
     expect((await bot.patch(`/api/objects/${recordId}`, { notes: 'by token' })).status).toBe(403)
     expect((await bot.post(`/api/objects/${recordId}/attachments`, { lobe: lobeDense.id, quantities: ['mass'] })).status).toBe(403)

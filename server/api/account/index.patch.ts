@@ -7,7 +7,7 @@ export default defineEventHandler(async (event) => {
   const { name } = await readBodyAs(event, accountUpdateSchema)
   const [user] = await useDB().update(schema.users).set({ name }).where(eq(schema.users.id, actor.id)).returning()
   if (!user) throw notFound('Account')
-  if (actor.via === 'session') await startSession(event, user)
+  if (actor.via === 'session') await startSession(event, user, actor.signedInAt)
   await audit(event, { actorId: actor.id, action: 'account.renamed', subjectType: 'user', subjectId: actor.id })
   return memberView(user)
 })

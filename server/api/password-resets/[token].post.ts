@@ -1,7 +1,7 @@
 import { and, eq, isNull } from 'drizzle-orm'
 import { resetCompleteSchema, tokenParamSchema } from '#shared/types/account'
 
-/** Set a new password with a reset link; the link works once. */
+/** Set a new password with a reset link; the link works once and signs out every session of the member. */
 export default defineEventHandler(async (event) => {
   const { token } = paramsAs(event, tokenParamSchema)
   const { password } = await readBodyAs(event, resetCompleteSchema)
@@ -13,7 +13,7 @@ export default defineEventHandler(async (event) => {
     const claimed = await tx.update(schema.passwordResets).set({ usedAt: new Date() })
       .where(and(eq(schema.passwordResets.id, row.id), isNull(schema.passwordResets.usedAt))).returning({ id: schema.passwordResets.id })
     if (!claimed.length) return false
-    await tx.update(schema.users).set({ passwordHash }).where(eq(schema.users.id, row.userId))
+    await tx.update(schema.users).set({ passwordHash, credentialsChangedAt: new Date() }).where(eq(schema.users.id, row.userId))
     await audit(event, { actorId: row.userId, action: 'password-reset.completed', subjectType: 'password_reset', subjectId: row.id }, tx)
     return true
   })

@@ -44,12 +44,17 @@ export class Agent {
   }
 }
 
-/** The newest mail to `to` in the server's mail drop, read through the admin API. */
-export async function latestMailTo(admin: Agent, to: string, timeoutMs = 5000): Promise<{ subject: string, text: string }> {
+interface DroppedMail { envelopeTo: string[], subject: string, text: string }
+
+/**
+ * The newest mail to `to` in the server's mail drop (that `match` accepts, when given), read
+ * through the admin API; waits for it, since some mails are sent after the answer.
+ */
+export async function latestMailTo(admin: Agent, to: string, timeoutMs = 5000, match: (m: DroppedMail) => boolean = () => true): Promise<{ subject: string, text: string }> {
   const deadline = Date.now() + timeoutMs
   while (Date.now() < deadline) {
     const res = await admin.get('/api/mail-drop?limit=50')
-    const hit = res.json?.items?.find((m: { envelopeTo: string[] }) => m.envelopeTo.includes(to))
+    const hit = res.json?.items?.find((m: DroppedMail) => m.envelopeTo.includes(to) && match(m))
     if (hit) return hit
     await new Promise(r => setTimeout(r, 100))
   }

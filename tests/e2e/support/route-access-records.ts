@@ -14,9 +14,9 @@ export const RECORD_ROUTE_ACCESS: Record<string, Access> = {
   'GET /api/objects/:id/export.txt': 'viewer',
   'GET /api/attachments/preview': 'viewer',
   'POST /api/attachments/:id/review': 'reviewer',
-  // Any member may discuss a value; a comment changes no value.
+  // Any member reads the discussion; reviewers and analysts (and admins) write in it, viewers do not.
   'GET /api/attachments/:id/comments': 'viewer',
-  'POST /api/attachments/:id/comments': 'viewer',
+  'POST /api/attachments/:id/comments': ['analyst', 'reviewer'],
   'GET /api/account/record-mail': 'viewer',
   'PATCH /api/account/record-mail': 'viewer',
 }

@@ -1,12 +1,14 @@
 /**
- * Who may call each route: 'public', or the role it needs ('viewer' = any signed-in member;
- * admins pass every check). One row per route of the built server; roles.test.ts fails when a
+ * Who may call each route: 'public', the role it needs ('viewer' = any signed-in member;
+ * admins pass every check), or the list of roles that may. One row per route of the built server; roles.test.ts fails when a
  * route has no row or a row has no route.
  */
 import { RECORD_ROUTE_ACCESS } from './route-access-records'
 import { STUDY_ROUTE_ACCESS } from './route-access-studies'
 
-export type Access = 'public' | 'viewer' | 'reviewer' | 'analyst' | 'admin'
+type Role = 'viewer' | 'reviewer' | 'analyst' | 'admin'
+/** 'public', one role, or a list of roles any of which may call (admins always may). */
+export type Access = 'public' | Role | readonly Role[]
 
 export const ROUTE_ACCESS: Record<string, Access> = {
   'GET /api/health': 'public',

@@ -35,13 +35,14 @@ export default defineEventHandler(async (event) => {
     if (!decided) throw recordConflict(`Attachment #${id} was already decided`)
     if (comment) await tx.insert(schema.attachmentComments).values({ attachmentId: id, authorId: actor.id, kind: 'decision', body: comment, createdAt: now })
     await tx.update(schema.objects).set({ updatedAt: now }).where(eq(schema.objects.id, decided.objectId))
+    // Audited in the same transaction: a decision is never stored without its audit events.
+    await audit(event, { actorId: actor.id, action: `record.value-${state}`, subjectType: 'attachment', subjectId: id, detail: { object: decided.objectId, quantity: decided.quantityKey, subject: decided.subject, comment: comment || undefined } }, tx)
+    for (const s of superseded) {
+      await audit(event, { actorId: actor.id, action: 'record.value-superseded', subjectType: 'attachment', subjectId: s, detail: { object: decided.objectId, quantity: decided.quantityKey, by: id } }, tx)
+    }
     return { decided, superseded }
   })
   const { decided, superseded } = outcome
-  await audit(event, { actorId: actor.id, action: `record.value-${state}`, subjectType: 'attachment', subjectId: id, detail: { object: decided.objectId, quantity: decided.quantityKey, subject: decided.subject, comment: comment || undefined } })
-  for (const s of superseded) {
-    await audit(event, { actorId: actor.id, action: 'record.value-superseded', subjectType: 'attachment', subjectId: s, detail: { object: decided.objectId, quantity: decided.quantityKey, by: id } })
-  }
 
   const names = await memberNames(db, [decided.proposedBy, actor.id])
   const view = attachmentView(decided, names)

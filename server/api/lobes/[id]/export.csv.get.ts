@@ -1,10 +1,6 @@
-import { idParamSchema } from '#shared/types/account'
-
 /** The lobe's property table as CSV: quantity, value, unit (one row per component). */
 export default defineEventHandler(async (event) => {
-  await requireRole(event, 'viewer')
-  const { id } = paramsAs(event, idParamSchema)
-  const { view } = await loadLobeView(useDB(), id)
+  const { id, view } = await lobeForExport(event, 'csv')
   const props = view.properties as Record<string, unknown>
   const lines = [['quantity', 'value', 'unit', 'lobe', 'sha256', 'density_kg_m3', 'algorithm_version'].join(',')]
   for (const row of LOBE_PROPERTY_ROWS) {

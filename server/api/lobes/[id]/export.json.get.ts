@@ -1,10 +1,6 @@
-import { idParamSchema } from '#shared/types/account'
-
 /** The lobe's values with units and provenance, as a download. */
 export default defineEventHandler(async (event) => {
-  await requireRole(event, 'viewer')
-  const { id } = paramsAs(event, idParamSchema)
-  const { view } = await loadLobeView(useDB(), id)
+  const { id, view } = await lobeForExport(event, 'json')
   setResponseHeader(event, 'content-disposition', `attachment; filename="lobe-${id}.json"`)
   return {
     ...view,

@@ -81,11 +81,12 @@ export default defineEventHandler(async (event) => {
     await ensureLink(tx, id, link, 'attachment', actor.id)
     await tx.insert(schema.objectFollows).values({ objectId: id, userId: actor.id }).onConflictDoNothing()
     await tx.update(schema.objects).set({ updatedAt: now }).where(eq(schema.objects.id, id))
+    // Audited in the same transaction: no value is stored without its audit event.
+    for (const r of inserted) {
+      await audit(event, { actorId: actor.id, action: 'record.value-proposed', subjectType: 'attachment', subjectId: r.id, detail: { object: id, quantity: r.quantityKey, subject: r.subject, ...link } }, tx)
+    }
     return inserted
   })
-  for (const r of rows) {
-    await audit(event, { actorId: actor.id, action: 'record.value-proposed', subjectType: 'attachment', subjectId: r.id, detail: { object: id, quantity: r.quantityKey, subject: r.subject, ...link } })
-  }
   const names = new Map([[actor.id, actor.name]])
   const items = rows.map(r => attachmentView(r, names))
 
