@@ -83,7 +83,9 @@ describe('object records: attach, review, supersede, export, mail', () => {
     lobeLight = await up(box, 'slab-light.obj', '800')
     lobeOther = await up(writeObj(boxMesh(3, 1, 1)), 'long.obj', '1500')
 
-    // A finished study row (inserted directly until the study routes are settled).
+    // A finished study row inserted directly, with values picked to test float64 round trips
+    // (0.1 + 0.2, π·67.5, √2/31) through attachments and exports; the real study → record path
+    // runs in records-acceptance.test.ts and records-flow.test.ts.
     const ins = await server.sql().execute({
       sql: `insert into studies (owner_id, lobe_a_id, lobe_b_id, title, input, cache_key, status, progress, result, algorithm_version, finished_at)
             values (?, ?, ?, ?, ?, ?, 'done', 1, ?, 'isthmus-geometry test', ?) returning id`,
