@@ -23,7 +23,7 @@ import type { SpreadSample, SpreadSpec, SpreadSummary } from './spread'
 import { mergeMeshes } from './generate'
 import { dot } from './quat'
 
-export const CONTACT_ALGORITHM_VERSION = 'contact-1.0.1'
+export const CONTACT_ALGORITHM_VERSION = 'contact-1.1.0'
 
 export interface ContactStudyInput {
   meshA: TriMesh
@@ -129,8 +129,9 @@ export async function runContactStudy(input: ContactStudyInput, opts: StudyOptio
   const union = nk.union ?? mergeMeshes([Ac, applyPose(input.meshB, fc.poseB)])
   // The full-shape attraction along the line (force on B toward A) for the separation period.
   const fLine = -dot(mp.force, fc.direction)
+  // Two-density merged body: A at ρ_A plus B∖A at ρ_B (the overlap lens counted in A).
   const merged = mergedBody({
-    union, propsA: pA, propsB: pB, poseB: nk.union ? { ...fc.poseB, translation: fc.poseB.translation.map((t, i) => t - fc.direction[i] * depth) as Vec3 } : fc.poseB,
+    overlap: nk.intersection, propsA: pA, propsB: pB, poseB: nk.union ? { ...fc.poseB, translation: fc.poseB.translation.map((t, i) => t - fc.direction[i] * depth) as Vec3 } : fc.poseB,
     massModel: input.massModel, orbitalAngularMomentum: kin.orbitalAngularMomentum, orbitalAngularRate: kin.orbitalAngularRate, orbitNormal: kin.orbitNormal,
     direction: fc.direction, separation: fc.separation - depth, neckArea: nk.neck.area, spinA: input.spinA, spinB: input.spinB,
     fullShapeForce: depth === 0 ? fLine : undefined, observedSpinPeriod: input.observedSpinPeriod,
