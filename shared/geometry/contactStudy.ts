@@ -48,8 +48,11 @@ export interface ContactStudyInput {
   /** Heliocentric part of the screen (the rest comes from the study); omit for no screen. */
   screen?: Pick<ScreenInput, 'semiMajorAxis' | 'eccentricity' | 'inclinationDeg' | 'heliocentricSemiMajorAxis' | 'heliocentricEccentricity' | 'klPrefactor'>
   spread?: SpreadSpec
-  /** Mutual-potential quadrature (defaults order 2, maxFaces 1000). */
-  mutual?: { order?: number, maxFaces?: number }
+  /**
+   * Mutual-potential quadrature: first order (default 3), highest order (5), target relative change
+   * between successive orders (1e-4), faces per lobe above which it is simplified (1000).
+   */
+  mutual?: { order?: number, maxOrder?: number, tolerance?: number, maxFaces?: number }
   /** BVH cache and keys (e.g. mesh content hashes). */
   cache?: ContactBvhCache
   keyA?: string
@@ -68,8 +71,12 @@ export interface ContactResult extends ContactSpeeds {
   poseB: Pose
   speedFullShape: number
   escapeSpeedFullShape: number
-  /** Quadrature report of the full-shape figures. */
-  mutualPotential: { W: number, order: number, convergence: number | null, facesA: number, facesB: number, simplified: boolean }
+  /**
+   * Quadrature report of the full-shape figures: final order, relative change from the previous
+   * order (`convergence`) against `tolerance`, and the simplification (faces used vs the lobes' own).
+   * The convergence covers the quadrature only; `simplified` lobes keep their mass, not their exact shape.
+   */
+  mutualPotential: { W: number, order: number, convergence: number | null, tolerance: number, converged: boolean, facesA: number, facesB: number, sourceFacesA: number, sourceFacesB: number, simplified: boolean }
 }
 
 export interface ContactStudyResult {
@@ -173,7 +180,7 @@ export async function runContactStudy(input: ContactStudyInput, opts: StudyOptio
       massRatio: k.massRatio,
       speedFullShape: fs.speedFullShape,
       escapeSpeedFullShape: fs.escapeSpeedFullShape,
-      mutualPotential: { W: mp.W, order: mp.order, convergence: mp.convergence, facesA: mp.facesA, facesB: mp.facesB, simplified: mp.simplified },
+      mutualPotential: { W: mp.W, order: mp.order, convergence: mp.convergence, tolerance: mp.tolerance, converged: mp.converged, facesA: mp.facesA, facesB: mp.facesB, sourceFacesA: mp.sourceFacesA, sourceFacesB: mp.sourceFacesB, simplified: mp.simplified },
     },
     neck: nk.neck,
     merged,
