@@ -83,7 +83,11 @@ export interface ContactStudyResult {
   contact: ContactResult | (NoContact & { separation: number })
   neck: Neck | null
   merged: MergedBody | null
-  sweep: { overlapDepth: number, equivalentRadius: number, area: number, overlapVolume: number }[] | null
+  /**
+   * Neck vs overlap depth. Each row's `tiltDeg` is 0: the sweep cuts only with planes perpendicular
+   * to the line of centres (the neck at the chosen overlap also searches tilts up to 30°).
+   */
+  sweep: { overlapDepth: number, equivalentRadius: number, area: number, overlapVolume: number, tiltDeg: 0 }[] | null
   screen: PathwayScreen | null
   spread: (SpreadSummary & { sampleValues?: SpreadSample[] }) | null
   massModel: MassModel
@@ -145,7 +149,8 @@ export async function runContactStudy(input: ContactStudyInput, opts: StudyOptio
   })
   check(); report(0.7, 'neck sweep')
   const steps = input.sweepSteps ?? 4
-  const sweep = steps > 0 ? await neckSweep(neckInput, steps, smaller / 4, { tilt: false, signal: opts.signal }) : null
+  // Perpendicular planes only (tilt 0, stated per row): a tilt search per depth would multiply the cost.
+  const sweep = steps > 0 ? (await neckSweep(neckInput, steps, smaller / 4, { tilt: false, signal: opts.signal })).map(r => ({ ...r, tiltDeg: 0 as const })) : null
   check()
   let spread: (SpreadSummary & { sampleValues?: SpreadSample[] }) | null = null
   if (input.spread) {

@@ -44,6 +44,8 @@ describe('runContactStudy', () => {
     expect(r.neck!.equivalentRadius).toBeGreaterThan(0)
     expect(r.merged!.massModel).toBe('conserve-mass')
     expect(r.sweep).toHaveLength(3)
+    // The sweep uses planes perpendicular to the line of centres and says so on each row.
+    for (const row of r.sweep!) expect(row.tiltDeg).toBe(0)
     expect(r.screen!.kind).toBe('screen')
     expect(stages[0]).toBe('mass properties')
     expect(stages.at(-1)).toBe('done')
