@@ -2,7 +2,8 @@
  * Contact-study benchmark: `npx tsx bench/contact.ts`. Prints figures; targets are guidance.
  *  - first contact of two ~200 000-face lobes, BVHs cached (target ≤ 0.4 s) and cold (≤ 0.8 s)
  *  - union + intersection of two ~100 000-face lobes (≤ 1 s), with the neck search (≤ 2 s)
- *  - a 200-sample spread with a direction cone on 2 worker threads
+ *  - the full-shape mutual potential at first contact (default quadrature convergence loop)
+ *  - a 200-sample spread with a direction cone on 2 worker threads (≤ 20 s)
  */
 import { Worker } from 'node:worker_threads'
 import { fileURLToPath } from 'node:url'
@@ -11,7 +12,7 @@ import { ContactBvhCache, firstContact, meshInContactFrame } from '../shared/geo
 import { overlapAndUnion } from '../shared/geometry/booleans'
 import { findNeck } from '../shared/geometry/neck'
 import { massProperties } from '../shared/geometry/mass'
-import { simplifyClosed } from '../shared/geometry/mutual'
+import { mutualPotential, simplifyClosed } from '../shared/geometry/mutual'
 import { createSpreadContext, summariseSpread } from '../shared/geometry/spread'
 import type { SpreadSample, SpreadSpec } from '../shared/geometry/spread'
 import { quatFromAxisAngle } from '../shared/geometry/quat'
@@ -60,6 +61,12 @@ export async function runContactBench(): Promise<Record<string, number>> {
   fig.neckSearchMs = performance.now() - t2
   fig.unionAndNeckMs = performance.now() - t
   console.log(`neck search (${neck.evaluations} sections, tilt ${neck.tiltDeg.toFixed(1)}°, r_eq ${neck.equivalentRadius.toFixed(1)} m): ${ms(t2)}; union + neck ${ms(t)}`)
+  // Full-shape mutual potential at first contact, default settings (lobes simplified to 1000 faces,
+  // order raised until successive orders differ by < 1e-4, at most 5).
+  t = performance.now()
+  const mp = await mutualPotential(A1, 1000, pA1.centroid, B1, 1000, fc.poseB)
+  fig.mutualPotentialMs = performance.now() - t
+  console.log(`full-shape mutual potential (${mp.sourceFacesA}/${mp.sourceFacesB} faces → ${mp.facesA}/${mp.facesB}): ${ms(t)}, order ${mp.order}, relative change ${mp.convergence?.toExponential(2)} (${mp.converged ? 'converged' : 'NOT converged'} at ${mp.tolerance})`)
   // Spread: 200 samples on 2 worker threads, ~20k-face lobes, 25° cone, neck per sample.
   const As = await lobe(1500, 1100, 900, 5, 20_000), Bs = await lobe(1000, 800, 700, 6, 20_000)
   const spec: SpreadSpec = { seed: 2024, samples: 200, densityA: { kind: 'normal', mean: 1200, std: 300 }, densityB: { kind: 'uniform', min: 600, max: 2000 }, coneHalfAngleDeg: 25, scale: { kind: 'normal', mean: 1, std: 0.05 } }

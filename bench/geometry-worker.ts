@@ -1,6 +1,6 @@
-/** Worker for bench/geometry.ts: surface field of a chunk of points (the server's worker-pool kernel). */
+/** Worker for bench/geometry.ts: the server's surface-field job kernel (`surfaceFieldWithEscape`) on a slice of the points. */
 import { parentPort, workerData } from 'node:worker_threads'
-import { preparePolyhedron, surfaceFieldChunk } from '../shared/geometry/gravity'
+import { preparePolyhedron, surfaceFieldWithEscape } from '../shared/geometry/gravity'
 
 interface Job {
   positions: Float64Array
@@ -14,7 +14,6 @@ interface Job {
 }
 const { positions, indices, points, normals, density, omega, start, end } = workerData as Job
 const model = preparePolyhedron({ positions, indices })
-const n = points.length / 3
-const out = { gravity: new Float64Array(n), slopeDeg: new Float64Array(n), potential: new Float64Array(n) }
-surfaceFieldChunk(model, density, points, normals, omega ? { omega } : null, start, end, out)
-parentPort!.postMessage({ start, end, gravity: out.gravity.slice(start, end), slopeDeg: out.slopeDeg.slice(start, end), potential: out.potential.slice(start, end) })
+// The server hands each worker its own slice of points (server/utils/lobes.ts), as here.
+const out = surfaceFieldWithEscape(model, density, points.slice(3 * start, 3 * end), normals.slice(3 * start, 3 * end), omega ? { omega } : null)
+parentPort!.postMessage({ start, end, gravity: out.gravity, slopeDeg: out.slopeDeg, potential: out.potential, escape: out.escape })

@@ -82,7 +82,7 @@ export async function runGeometryBench(): Promise<void> {
     t = performance.now()
     const half = Math.ceil(n / 2)
     const omega: [number, number, number] = [0, 0, (2 * Math.PI) / (6 * 3600)]
-    const parts = await Promise.all([[0, half], [half, n]].map(([start, end]) => new Promise<{ gravity: Float64Array, slopeDeg: Float64Array }>((resolve, reject) => {
+    const parts = await Promise.all([[0, half], [half, n]].map(([start, end]) => new Promise<{ gravity: Float64Array, slopeDeg: Float64Array, escape: Float64Array }>((resolve, reject) => {
       // a .ts worker: register tsx's loader inside the worker, then import the worker module
       const api = import.meta.resolve('tsx/esm/api')
       const entry = new URL('./geometry-worker.ts', import.meta.url).href
@@ -97,7 +97,10 @@ export async function runGeometryBench(): Promise<void> {
     const g = new Float64Array(n)
     g.set(parts[0]!.gravity, 0); g.set(parts[1]!.gravity, half)
     const s = summarise(g, ep.areas)
-    console.log(`surface field, ${nf}-face lobe at ${n} points on 2 worker threads: ${field.toFixed(2)} s (${((nf * n) / field / 1e6).toFixed(1)} M face·points/s), |g| ${s.min.toExponential(3)}..${s.max.toExponential(3)} m/s², area-weighted mean ${s.mean.toExponential(3)}`)
+    const esc = new Float64Array(n)
+    esc.set(parts[0]!.escape, 0); esc.set(parts[1]!.escape, half)
+    const se = summarise(esc, ep.areas)
+    console.log(`surface field, ${nf}-face lobe at ${n} points on 2 worker threads: ${field.toFixed(2)} s (${((nf * n) / field / 1e6).toFixed(1)} M face·points/s), |g| ${s.min.toExponential(3)}..${s.max.toExponential(3)} m/s², area-weighted mean ${s.mean.toExponential(3)}; escape √(2U) mean ${se.mean.toExponential(3)} m/s (same pass)`)
     console.log(`peak RSS of the bench process: ${(process.resourceUsage().maxRSS / 1024).toFixed(0)} MB`)
   } finally {
     rmSync(dir, { recursive: true, force: true })

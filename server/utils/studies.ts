@@ -91,6 +91,7 @@ async function runStudy(db: DB, study: Study, a: Lobe, b: Lobe) {
         ...approachOf(input, propsA),
         observedSpinPeriod: input.observedSpinPeriodHours ? input.observedSpinPeriodHours * 3600 : undefined,
         sweepSteps: input.sweepSteps,
+        // A screen with a non-bound orbit is refused by studyInputSchema (422 naming 'screen').
         screen: input.screen && orbitA !== undefined && input.orbit.kind === 'bound'
           ? { semiMajorAxis: orbitA, eccentricity: input.orbit.eccentricity, inclinationDeg: input.screen.inclinationDeg, heliocentricSemiMajorAxis: input.screen.heliocentricSemiMajorAxisAu * AU_M, heliocentricEccentricity: input.screen.heliocentricEccentricity, klPrefactor: input.screen.klPrefactor }
           : undefined,

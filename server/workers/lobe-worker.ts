@@ -7,7 +7,7 @@ import { readlinkSync } from 'node:fs'
 import { readFile } from 'node:fs/promises'
 import { setPriority } from 'node:os'
 import { parentPort } from 'node:worker_threads'
-import { GeometryError, evaluationPoints, icosphere, massProperties, writePly, preparePolyhedron, readMesh, summarise, surfaceEscapeSpeed, surfaceFieldChunk, validateMesh } from '../../shared/geometry'
+import { GeometryError, evaluationPoints, icosphere, massProperties, writePly, preparePolyhedron, readMesh, summarise, surfaceFieldWithEscape, validateMesh } from '../../shared/geometry'
 import type { PolyhedronModel, TriMesh, Vec3 } from '../../shared/geometry'
 import { decodeAnalysisMesh, encodeAnalysisMesh } from '../../shared/utils/mesh-binary'
 import { extraTasks } from './extra-tasks'
@@ -94,15 +94,9 @@ async function fieldPrepare(p: FieldPreparePayload) {
 
 async function fieldChunk(p: FieldChunkPayload, progress: (f: number, stage: string) => void) {
   const model = await loadModel(p.analysisMeshPath)
-  const n = p.points.length / 3
-  const out = { gravity: new Float64Array(n), slopeDeg: new Float64Array(n), potential: new Float64Array(n) }
-  const step = Math.max(1, Math.ceil(n / 20))
-  for (let s = 0; s < n; s += step) {
-    surfaceFieldChunk(model, p.density, p.points, p.normals, p.omega ? { omega: p.omega } : null, s, Math.min(n, s + step), out)
-    progress(Math.min(1, (s + step) / n), 'surface field')
-  }
-  const escape = surfaceEscapeSpeed(model, p.density, p.points, p.omega ? { omega: p.omega } : null)
-  return { ...out, escape: escape.nonRotating }
+  // One kernel pass: the escape speed comes from the same potential (√(2U), gravitational U alone).
+  const { gravitationalPotential: _u, ...out } = surfaceFieldWithEscape(model, p.density, p.points, p.normals, p.omega ? { omega: p.omega } : null, f => progress(f, 'surface field'))
+  return out
 }
 
 const tasks: Record<string, (payload: any, progress: (f: number, stage: string) => void) => Promise<unknown>> = {

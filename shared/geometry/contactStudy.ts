@@ -23,7 +23,7 @@ import type { SpreadSample, SpreadSpec, SpreadSummary } from './spread'
 import { mergeMeshes } from './generate'
 import { dot } from './quat'
 
-export const CONTACT_ALGORITHM_VERSION = 'contact-1.0.1'
+export const CONTACT_ALGORITHM_VERSION = 'contact-1.1.0'
 
 export interface ContactStudyInput {
   meshA: TriMesh
@@ -48,8 +48,11 @@ export interface ContactStudyInput {
   /** Heliocentric part of the screen (the rest comes from the study); omit for no screen. */
   screen?: Pick<ScreenInput, 'semiMajorAxis' | 'eccentricity' | 'inclinationDeg' | 'heliocentricSemiMajorAxis' | 'heliocentricEccentricity' | 'klPrefactor'>
   spread?: SpreadSpec
-  /** Mutual-potential quadrature (defaults order 2, maxFaces 1000). */
-  mutual?: { order?: number, maxFaces?: number }
+  /**
+   * Mutual-potential quadrature: first order (default 3), highest order (5), target relative change
+   * between successive orders (1e-4), faces per lobe above which it is simplified (1000).
+   */
+  mutual?: { order?: number, maxOrder?: number, tolerance?: number, maxFaces?: number }
   /** BVH cache and keys (e.g. mesh content hashes). */
   cache?: ContactBvhCache
   keyA?: string
@@ -68,15 +71,23 @@ export interface ContactResult extends ContactSpeeds {
   poseB: Pose
   speedFullShape: number
   escapeSpeedFullShape: number
-  /** Quadrature report of the full-shape figures. */
-  mutualPotential: { W: number, order: number, convergence: number | null, facesA: number, facesB: number, simplified: boolean }
+  /**
+   * Quadrature report of the full-shape figures: final order, relative change from the previous
+   * order (`convergence`) against `tolerance`, and the simplification (faces used vs the lobes' own).
+   * The convergence covers the quadrature only; `simplified` lobes keep their mass, not their exact shape.
+   */
+  mutualPotential: { W: number, order: number, convergence: number | null, tolerance: number, converged: boolean, facesA: number, facesB: number, sourceFacesA: number, sourceFacesB: number, simplified: boolean }
 }
 
 export interface ContactStudyResult {
   contact: ContactResult | (NoContact & { separation: number })
   neck: Neck | null
   merged: MergedBody | null
-  sweep: { overlapDepth: number, equivalentRadius: number, area: number, overlapVolume: number }[] | null
+  /**
+   * Neck vs overlap depth. Each row's `tiltDeg` is 0: the sweep cuts only with planes perpendicular
+   * to the line of centres (the neck at the chosen overlap also searches tilts up to 30°).
+   */
+  sweep: { overlapDepth: number, equivalentRadius: number, area: number, overlapVolume: number, tiltDeg: 0 }[] | null
   screen: PathwayScreen | null
   spread: (SpreadSummary & { sampleValues?: SpreadSample[] }) | null
   massModel: MassModel
@@ -129,15 +140,17 @@ export async function runContactStudy(input: ContactStudyInput, opts: StudyOptio
   const union = nk.union ?? mergeMeshes([Ac, applyPose(input.meshB, fc.poseB)])
   // The full-shape attraction along the line (force on B toward A) for the separation period.
   const fLine = -dot(mp.force, fc.direction)
+  // Two-density merged body: A at ρ_A plus B∖A at ρ_B (the overlap lens counted in A).
   const merged = mergedBody({
-    union, propsA: pA, propsB: pB, poseB: nk.union ? { ...fc.poseB, translation: fc.poseB.translation.map((t, i) => t - fc.direction[i] * depth) as Vec3 } : fc.poseB,
+    overlap: nk.intersection, propsA: pA, propsB: pB, poseB: nk.union ? { ...fc.poseB, translation: fc.poseB.translation.map((t, i) => t - fc.direction[i] * depth) as Vec3 } : fc.poseB,
     massModel: input.massModel, orbitalAngularMomentum: kin.orbitalAngularMomentum, orbitalAngularRate: kin.orbitalAngularRate, orbitNormal: kin.orbitNormal,
     direction: fc.direction, separation: fc.separation - depth, neckArea: nk.neck.area, spinA: input.spinA, spinB: input.spinB,
     fullShapeForce: depth === 0 ? fLine : undefined, observedSpinPeriod: input.observedSpinPeriod,
   })
   check(); report(0.7, 'neck sweep')
   const steps = input.sweepSteps ?? 4
-  const sweep = steps > 0 ? await neckSweep(neckInput, steps, smaller / 4, { tilt: false, signal: opts.signal }) : null
+  // Perpendicular planes only (tilt 0, stated per row): a tilt search per depth would multiply the cost.
+  const sweep = steps > 0 ? (await neckSweep(neckInput, steps, smaller / 4, { tilt: false, signal: opts.signal })).map(r => ({ ...r, tiltDeg: 0 as const })) : null
   check()
   let spread: (SpreadSummary & { sampleValues?: SpreadSample[] }) | null = null
   if (input.spread) {
@@ -172,7 +185,7 @@ export async function runContactStudy(input: ContactStudyInput, opts: StudyOptio
       massRatio: k.massRatio,
       speedFullShape: fs.speedFullShape,
       escapeSpeedFullShape: fs.escapeSpeedFullShape,
-      mutualPotential: { W: mp.W, order: mp.order, convergence: mp.convergence, facesA: mp.facesA, facesB: mp.facesB, simplified: mp.simplified },
+      mutualPotential: { W: mp.W, order: mp.order, convergence: mp.convergence, tolerance: mp.tolerance, converged: mp.converged, facesA: mp.facesA, facesB: mp.facesB, sourceFacesA: mp.sourceFacesA, sourceFacesB: mp.sourceFacesB, simplified: mp.simplified },
     },
     neck: nk.neck,
     merged,

@@ -153,6 +153,18 @@ export function potential(model: PolyhedronModel, density: number, point: Vec3):
   return G * density * evalAt(model, point[0] - model.origin[0], point[1] - model.origin[1], point[2] - model.origin[2], null, null)
 }
 
+/**
+ * Potential U (m² s⁻², returned) and acceleration g = ∇U (m s⁻², written to `out`) at a file-frame
+ * point in one pass of the kernel (half the cost of `potential` + `acceleration`).
+ */
+export function potentialAndAcceleration(model: PolyhedronModel, density: number, point: Vec3, out: Vec3): number {
+  const g = out as unknown as number[]
+  const k = G * density
+  const U = k * evalAt(model, point[0] - model.origin[0], point[1] - model.origin[1], point[2] - model.origin[2], g, null)
+  out[0] = g[0]! * k; out[1] = g[1]! * k; out[2] = g[2]! * k
+  return U
+}
+
 /** Gravitational acceleration g = ∇U (m s⁻²) at a file-frame point, written to `out` (returned). */
 export function acceleration(model: PolyhedronModel, density: number, point: Vec3, out: Vec3 = [0, 0, 0]): Vec3 {
   const g = [0, 0, 0]
@@ -280,22 +292,56 @@ export async function evaluationPoints(mesh: TriMesh, maxPoints: number): Promis
  */
 export function surfaceEscapeSpeed(model: PolyhedronModel, density: number, points: Float64Array, spin: { omega: Vec3 } | null = null, areas?: Float64Array) {
   const n = points.length / 3
+  const U = new Float64Array(n)
+  const [ox, oy, oz] = model.origin
+  const k = G * density
+  for (let i = 0; i < n; i++) U[i] = k * evalAt(model, points[3 * i]! - ox, points[3 * i + 1]! - oy, points[3 * i + 2]! - oz, null, null)
+  return escapeSpeedsFromPotential(U, points, model.origin, spin, areas)
+}
+
+/**
+ * The escape speeds of `surfaceEscapeSpeed` from an already evaluated gravitational potential U
+ * (m² s⁻², > 0, e.g. `surfaceFieldChunk`'s `gravitationalPotential`), without a second kernel pass.
+ * points: file frame, m; origin: the spin axis point (the model's centroid), m.
+ */
+export function escapeSpeedsFromPotential(gravitationalPotential: Float64Array, points: Float64Array, origin: Vec3, spin: { omega: Vec3 } | null = null, areas?: Float64Array) {
+  const n = gravitationalPotential.length
   const nonRotating = new Float64Array(n)
   const along = spin ? new Float64Array(n) : null
   const [wx, wy, wz] = spin ? spin.omega : [0, 0, 0]
-  const [ox, oy, oz] = model.origin
-  const k = G * density
+  const [ox, oy, oz] = origin
   for (let i = 0; i < n; i++) {
-    const rx = points[3 * i]! - ox, ry = points[3 * i + 1]! - oy, rz = points[3 * i + 2]! - oz
-    const U = k * evalAt(model, rx, ry, rz, null, null)
-    const v = Math.sqrt(2 * Math.max(0, U))
+    const v = Math.sqrt(2 * Math.max(0, gravitationalPotential[i]!))
     nonRotating[i] = v
-    if (along) along[i] = Math.max(0, v - Math.hypot(wy * rz - wz * ry, wz * rx - wx * rz, wx * ry - wy * rx))
+    if (along) {
+      const rx = points[3 * i]! - ox, ry = points[3 * i + 1]! - oy, rz = points[3 * i + 2]! - oz
+      along[i] = Math.max(0, v - Math.hypot(wy * rz - wz * ry, wz * rx - wx * rz, wx * ry - wy * rx))
+    }
   }
   return {
     nonRotating, alongRotation: along,
     summary: { nonRotating: summarise(nonRotating, areas), alongRotation: along ? summarise(along, areas) : null },
   }
+}
+
+/**
+ * The surface-field job's kernel (worker pool and bench): `surfaceFieldChunk` over all `points`
+ * in `chunks` slices (for progress), then the escape speed from the same potential:
+ * `escape` = √(2U) with U the GRAVITATIONAL potential alone, i.e. the inertial escape speed with the
+ * body not spinning, also when `spin` is given (spin enters `potential` = U + ½|ω × r|², `slopeDeg`
+ * and `totalAcceleration`; the launch-direction-dependent speeds are `escapeSpeedsFromPotential`'s
+ * `alongRotation`). One Werner–Scheeres evaluation per point.
+ */
+export function surfaceFieldWithEscape(model: PolyhedronModel, density: number, points: Float64Array, normals: Float64Array, spin: { omega: Vec3 } | null,
+  onProgress?: (fraction: number) => void, chunks = 20): SurfaceFieldOut & { gravitationalPotential: Float64Array, escape: Float64Array } {
+  const n = points.length / 3
+  const out = { gravity: new Float64Array(n), slopeDeg: new Float64Array(n), potential: new Float64Array(n), gravitationalPotential: new Float64Array(n) }
+  const step = Math.max(1, Math.ceil(n / chunks))
+  for (let s = 0; s < n; s += step) {
+    surfaceFieldChunk(model, density, points, normals, spin, s, Math.min(n, s + step), out)
+    onProgress?.(Math.min(1, (s + step) / n))
+  }
+  return { ...out, escape: escapeSpeedsFromPotential(out.gravitationalPotential, points, model.origin).nonRotating }
 }
 
 /** Replaces each point by the centroid and unit normal of the original face nearest to it. */

@@ -9,17 +9,19 @@
  * (B's centroid + each face; valid for non-convex B because the signed parts cancel outside B),
  * each integrated with a collapsed (Duffy) Gauss–Legendre product rule of n points per direction
  * (n³ points per tetrahedron, exact for polynomials of degree 2n − 3 in the tetrahedron). The
- * convergence estimate is |W_n − W_{n−1}|/|W_n|. Mutual-potential formulation after Werner &
+ * convergence estimate is |W_n − W_{n−1}|/|W_n|; the order is raised from `order` (3) until it is below
+ * `tolerance` (default 1e-4) or `maxOrder` (5) is reached, and the report says which. Mutual-potential formulation after Werner &
  * Scheeres 2005, CMDA 91 [mem]; here evaluated by direct quadrature, not by series.
  *
  * Cost ∝ faces_B · n³ · (faces_A + edges_A): large lobes are first simplified (meshoptimizer) to
  * `maxFaces` faces each, with the density rescaled so each lobe keeps its mass; the report says so.
+ * The convergence estimate measures the quadrature only, not the simplification.
  */
 import { MeshoptSimplifier } from 'meshoptimizer'
 import { compactVertices } from './compact'
 import type { TriMesh, Vec3 } from './types'
 import { GeometryError } from './types'
-import { acceleration, potential, preparePolyhedron } from './gravity'
+import { potential, potentialAndAcceleration, preparePolyhedron } from './gravity'
 import type { PolyhedronModel } from './gravity'
 import { massProperties } from './mass'
 import { applyPose } from './contact'
@@ -117,20 +119,31 @@ export interface MutualPotentialResult {
   W: number
   /** Force on B from A, N, A's file frame. */
   force: Vec3
-  /** Quadrature order n per direction (n³ points per tetrahedron) and points used. */
+  /** Final quadrature order n per direction (n³ points per tetrahedron) and points used at it. */
   order: number
   points: number
-  /** |W_n − W_{n−1}|/|W_n| (null for n = 1). */
+  /** |W_n − W_{n−1}|/|W_n| at the final order (null for n = 1). */
   convergence: number | null
-  /** Faces used for A's potential and B's quadrature, and whether they were simplified. */
+  /** Target for `convergence` and whether it was reached (false: stopped at `maxOrder`). */
+  tolerance: number
+  converged: boolean
+  /** W at each order evaluated, J. */
+  history: { order: number, W: number }[]
+  /** Faces used for A's potential and B's quadrature, the lobes' own face counts, and whether they were simplified. */
   facesA: number
   facesB: number
+  sourceFacesA: number
+  sourceFacesB: number
   simplified: boolean
 }
 
 export interface MutualPotentialOptions {
-  /** Quadrature order 1..5 (default 2). */
+  /** First order 1..5 whose W may be accepted (default 3; it is compared with order − 1 = 2, order 1 being far too coarse). */
   order?: number
+  /** Highest order 1..5 the convergence loop may reach (default 5; = order for a fixed order). */
+  maxOrder?: number
+  /** Target relative change |W_n − W_{n−1}|/|W_n| (default 1e-4). */
+  tolerance?: number
   /** Faces per lobe above which the lobe is simplified first (default 1000). */
   maxFaces?: number
   signal?: AbortSignal
@@ -146,11 +159,11 @@ function integrate(model: PolyhedronModel, densityA: number, q: { points: Float6
     if ((k & 1023) === 0 && signal?.aborted) throw new GeometryError('ABORTED', 'mutualPotential: cancelled')
     p[0] = q.points[3 * k]; p[1] = q.points[3 * k + 1]; p[2] = q.points[3 * k + 2]
     const w = q.weights[k] * densityB
-    W += w * potential(model, densityA, p)
     if (withForce) {
-      acceleration(model, densityA, p, g)
+      W += w * potentialAndAcceleration(model, densityA, p, g)
       F[0] += w * g[0]; F[1] += w * g[1]; F[2] += w * g[2]
     }
+    else W += w * potential(model, densityA, p)
   }
   return { W, F }
 }
@@ -158,12 +171,17 @@ function integrate(model: PolyhedronModel, densityA: number, q: { points: Float6
 /**
  * Mutual potential W and force between homogeneous lobe A (file frame) and lobe B placed by
  * `poseB` relative to A's centroid (contact frame: x = R x_B + t, origin at `centroidA`).
- * Densities kg m⁻³. Both orders n and n − 1 are evaluated for the convergence estimate.
+ * Densities kg m⁻³. Orders n − 1 and n are compared, and n raised while the relative change is
+ * above `tolerance` and n < `maxOrder`; W and the force are those of the last order.
+ * @throws GeometryError('BAD_INPUT') for orders outside 1..5, ('ABORTED') when `signal` fires.
  */
 export async function mutualPotential(
   meshA: TriMesh, densityA: number, centroidA: Vec3, meshB: TriMesh, densityB: number, poseB: Pose, opts: MutualPotentialOptions = {},
 ): Promise<MutualPotentialResult> {
-  const order = opts.order ?? 2
+  const first = opts.order ?? 3
+  const maxOrder = Math.max(first, opts.maxOrder ?? 5)
+  const tolerance = opts.tolerance ?? 1e-4
+  if (!GL[first] || !GL[maxOrder]) throw new GeometryError('BAD_INPUT', `mutualPotential: orders must be 1..5, got ${first}..${maxOrder}`)
   const maxFaces = opts.maxFaces ?? 1000
   const sA = await simplifyClosed(meshA, maxFaces)
   const sB = await simplifyClosed(meshB, maxFaces)
@@ -174,11 +192,22 @@ export async function mutualPotential(
   // B into A's file frame: contact frame + centroidA.
   const placed = applyPose(sB.mesh, { quaternion: poseB.quaternion, translation: [poseB.translation[0] + centroidA[0], poseB.translation[1] + centroidA[1], poseB.translation[2] + centroidA[2]] })
   const apex = massProperties(placed, { density: 1 }).centroid
-  const hi = integrate(model, rhoA, volumeQuadrature(placed, apex, order), rhoB, true, opts.signal)
+  const history: { order: number, W: number }[] = []
+  let order = first
+  let hi = integrate(model, rhoA, volumeQuadrature(placed, apex, order), rhoB, true, opts.signal)
+  history.push({ order, W: hi.W })
   let convergence: number | null = null
   if (order > 1) {
     const lo = integrate(model, rhoA, volumeQuadrature(placed, apex, order - 1), rhoB, false, opts.signal)
+    history.unshift({ order: order - 1, W: lo.W })
     convergence = Math.abs(hi.W - lo.W) / Math.abs(hi.W)
+  }
+  while ((convergence === null || convergence >= tolerance) && order < maxOrder) {
+    order++
+    const next = integrate(model, rhoA, volumeQuadrature(placed, apex, order), rhoB, true, opts.signal)
+    convergence = Math.abs(next.W - hi.W) / Math.abs(next.W)
+    hi = next
+    history.push({ order, W: hi.W })
   }
   return {
     W: hi.W,
@@ -186,8 +215,13 @@ export async function mutualPotential(
     order,
     points: placed.indices.length / 3 * order ** 3,
     convergence,
+    tolerance,
+    converged: convergence !== null && convergence < tolerance,
+    history,
     facesA: sA.mesh.indices.length / 3,
     facesB: sB.mesh.indices.length / 3,
+    sourceFacesA: meshA.indices.length / 3,
+    sourceFacesB: meshB.indices.length / 3,
     simplified: sA.simplified || sB.simplified,
   }
 }

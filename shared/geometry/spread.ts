@@ -16,14 +16,14 @@ import { createRng } from './rng'
 import type { Rng } from './rng'
 import { massProperties, withDensity } from './mass'
 import type { MassProperties } from './mass'
-import { ContactBvhCache, firstContact, meshInContactFrame, applyPose } from './contact'
+import { ContactBvhCache, firstContact, meshInContactFrame } from './contact'
+import { overlapAndUnion } from './booleans'
 import { contactKinematics } from './kinematics'
 import type { RelativeOrbit } from './kinematics'
 import { neckAtDepth } from './neck'
 import { mergedBody } from './merged'
 import type { LobeSpin, MassModel } from './merged'
 import { anyPerpendicular, cross, normalize, scale, add } from './quat'
-import { mergeMeshes } from './generate'
 
 export type Prior = { kind: 'fixed', value: number } | { kind: 'uniform', min: number, max: number } | { kind: 'normal', mean: number, std: number }
 
@@ -150,22 +150,29 @@ export async function runSpreadSample(ctx: SpreadContext, index: number): Promis
   // Geometry at unit scale: depth δ/s.
   const depth = ctx.overlapDepth / s
   const Ac = meshInContactFrame(ctx.meshA, ctx.unitA.centroid)
-  let union: TriMesh
+  // The overlap lens (unit scale) for the two-density merged body: A at ρ_A plus B∖A at ρ_B.
+  let lens: TriMesh | null = null
   let neckArea = 0
   if (depth > 0 && (ctx.spec.neck ?? true)) {
     const smaller = Math.min(ctx.unitA.equivalentRadius, ctx.unitB.equivalentRadius)
     const r = await neckAtDepth({ meshAContact: Ac, meshB: ctx.meshB, poseB: fc.poseB, direction: fc.direction, separation: fc.separation, contactPoint: fc.point, contactNormal: fc.normalA, smallerLobeRadius: smaller }, depth, { tilt: false, scanSteps: 25 })
-    union = r.union!
+    lens = r.intersection
     neckArea = r.neck.area * s * s
     base.neckRadius = r.neck.equivalentRadius * s
   }
+  else if (depth > 0) {
+    lens = (await overlapAndUnion(Ac, ctx.meshB, fc.poseB, fc.direction, depth)).intersection
+  }
   else {
-    union = mergeMeshes([Ac, applyPose(ctx.meshB, fc.poseB)])
     base.neckRadius = 0
   }
-  const scaledUnion: TriMesh = { positions: union.positions.map(v => v * s), indices: union.indices }
+  // B's pose at the overlap depth, then everything scaled by s (centroids ∝ s, lens positions ∝ s).
+  const t = fc.poseB.translation
+  const u = fc.direction
+  const poseB = { quaternion: fc.poseB.quaternion, translation: [(t[0] - u[0] * depth) * s, (t[1] - u[1] * depth) * s, (t[2] - u[2] * depth) * s] as Vec3 }
+  const scaledLens: TriMesh | null = lens ? { positions: lens.positions.map(v => v * s), indices: lens.indices } : null
   const merged = mergedBody({
-    union: scaledUnion, propsA: pA, propsB: pB, poseB: fc.poseB, massModel: ctx.massModel, orbitalAngularMomentum: kin.orbitalAngularMomentum,
+    overlap: scaledLens, propsA: pA, propsB: pB, poseB, massModel: ctx.massModel, orbitalAngularMomentum: kin.orbitalAngularMomentum,
     orbitalAngularRate: kin.orbitalAngularRate, orbitNormal: kin.orbitNormal, direction: fc.direction, separation: d - ctx.overlapDepth, neckArea, spinA: ctx.spinA, spinB: ctx.spinB,
   })
   base.spinPeriod = merged.spinPeriod

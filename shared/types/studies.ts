@@ -65,6 +65,10 @@ export const studyInputSchema = z.object({
   if (v.orbitNormal && Math.abs(v.orbitNormal[0] * v.direction[0] + v.orbitNormal[1] * v.direction[1] + v.orbitNormal[2] * v.direction[2]) > 1e-6) {
     ctx.addIssue({ code: 'custom', path: ['orbitNormal'], message: 'orbitNormal must be perpendicular to direction' })
   }
+  // The pathway screen works on the bound mutual orbit (its semi-major axis and eccentricity).
+  if (v.screen && v.orbit.kind !== 'bound') {
+    ctx.addIssue({ code: 'custom', path: ['screen'], message: `the pathway screen needs a bound orbit (orbit.kind 'bound'), not '${v.orbit.kind}'; leave screen out` })
+  }
 })
 
 export type StudyInput = z.infer<typeof studyInputSchema>

@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest'
 import { boxMesh, ellipsoidMesh, icosphere } from '../../../shared/geometry/generate'
 import { G, massProperties } from '../../../shared/geometry/mass'
-import { acceleration, evaluationPoints, potential, preparePolyhedron, solidAngleSum, summarise, surfaceEscapeSpeed, surfaceFieldChunk } from '../../../shared/geometry/gravity'
+import { acceleration, evaluationPoints, potential, preparePolyhedron, solidAngleSum, summarise, surfaceEscapeSpeed, surfaceFieldChunk, surfaceFieldWithEscape } from '../../../shared/geometry/gravity'
 import { close, closeVec, ellipsoidPotential } from './helpers'
 
 describe('polyhedral gravity (Werner & Scheeres 1997)', () => {
@@ -74,6 +74,13 @@ describe('polyhedral gravity (Werner & Scheeres 1997)', () => {
     const esc = surfaceEscapeSpeed(model, rho, ep.points, { omega: [0, 0, omega] }, ep.areas)
     close(esc.summary.nonRotating.mean, Math.sqrt((2 * G * M) / R), 4e-3)
     close(esc.alongRotation![best]!, esc.nonRotating[best]! - omega * rxy, 1e-9)
+    // The surface-field job's single-pass kernel: the same escape speeds from the potential it already
+    // evaluated, and with spin still the non-rotating √(2U) (U gravitational only), ≈ √(2GM/R) (Newton).
+    const job = surfaceFieldWithEscape(model, rho, ep.points, ep.normals, { omega: [0, 0, omega] }, undefined, 7)
+    for (let i = 0; i < n; i++) close(job.escape[i]!, esc.nonRotating[i]!, 1e-14)
+    close(summarise(job.escape, ep.areas).mean, Math.sqrt((2 * G * M) / R), 4e-3)
+    expect(job.potential[best]).toBe(outS.potential[best])
+    expect(job.slopeDeg[best]).toBe(outS.slopeDeg[best])
   })
   it('spinning sphere: total surface acceleration GM/R² − ω²R⊥ at the equator, GM/R² at the pole, error O(h²)', () => {
     // Closed forms: outside a homogeneous sphere g = GM/r² (Newton's shell theorem); in the rotating

@@ -5,7 +5,10 @@ import { idParamSchema } from '#shared/types/account'
 
 const vec3 = z.tuple([z.number(), z.number(), z.number()])
 const body = z.object({
-  /** Cutting plane in the lobe's file frame (m); default: the neck found along the long principal axis. */
+  /**
+   * Cutting plane: point in METRES in the lobe's file axes and origin (SI at the API, also for lobes
+   * uploaded in km), normal any non-zero vector; default: the neck found along the long principal axis.
+   */
   plane: z.object({ point: vec3, normal: vec3.refine(v => Math.hypot(...v) > 0, 'normal must not be zero') }).optional(),
 })
 
@@ -17,14 +20,14 @@ export default defineEventHandler(async (event) => {
   const db = useDB()
   const lobe = await db.select().from(schema.lobes).where(eq(schema.lobes.id, id)).get()
   if (!lobe) throw notFound('Lobe')
-  const scale = lobe.units === 'km' ? 1000 : 1
   const { derived } = uploadPaths()
   const outPaths: [string, string] = [join(derived, `split-${lobe.sha256}-${Date.now()}-a.bin`), join(derived, `split-${lobe.sha256}-${Date.now()}-b.bin`)]
   let split: { plane: unknown, neckArea: number, positiveVolume: number, negativeVolume: number }
   try {
     split = await useWorkerPool().run('split', {
       meshPath: derivedMeshPaths(lobe.sha256, lobe.units).analysis,
-      plane: plane ? { point: plane.point.map(v => v * scale), normal: plane.normal } : undefined,
+      // The analysis mesh is stored in metres, like the plane point: no unit conversion here.
+      plane,
       outPaths,
     }, { priority: 5 })
   }

@@ -1,0 +1,98 @@
+import { afterAll, beforeAll, describe, expect, it } from 'vitest'
+import { writePly } from '../../shared/geometry'
+import type { TriMesh } from '../../shared/geometry'
+import { Agent } from './support/http'
+import { uploadLobe } from './support/lobes'
+import { startServer, type RunningServer } from './support/server'
+
+// Two overlapping spheres as one body, in km: radii R1 = 1, R2 = 0.6, centres 0 and d = 1.4 on x.
+const R1 = 1, R2 = 0.6, D = 1.4
+// Sphere–sphere intersection plane x_i = (d² + R1² − R2²)/(2d) (Weisstein, MathWorld "Sphere-Sphere Intersection").
+const XI = (D * D + R1 * R1 - R2 * R2) / (2 * D)
+/** Spherical cap of height h on a sphere of radius R: V = πh²(3R − h)/3 (Weisstein, MathWorld "Spherical Cap"). */
+const cap = (R: number, h: number) => Math.PI * h * h * (3 * R - h) / 3
+const ball = (R: number) => 4 / 3 * Math.PI * R ** 3
+const KM3 = 1e9
+// Cut at x_i: the −x part is sphere 1 minus its cap beyond x_i; the +x part is sphere 2 minus its cap below x_i.
+const V_NEG = (ball(R1) - cap(R1, R1 - XI)) * KM3
+const V_POS = (ball(R2) - cap(R2, R2 - (D - XI))) * KM3
+/**
+ * The union of the two spheres as one closed mesh: a surface of revolution about x whose profile is
+ * sphere 1's arc from x = −R1 to the intersection circle, then sphere 2's arc to x = d + R2, with
+ * `around` segments per ring and arc steps of about the same angle. (A manifold-3d union of two
+ * icospheres carries zero-area slivers along the intersection curve, which upload validation refuses.)
+ */
+function twoSphereUnion(around: number): TriMesh {
+  const step = 2 * Math.PI / around
+  const prof: [number, number][] = []
+  const t1 = Math.acos(XI / R1), t2 = Math.acos((XI - D) / R2)
+  const n1 = Math.ceil((Math.PI - t1) / step), n2 = Math.ceil(t2 / step)
+  for (let k = 1; k <= n1; k++) { const t = Math.PI - (Math.PI - t1) * k / n1; prof.push([R1 * Math.cos(t), R1 * Math.sin(t)]) }
+  for (let k = 1; k < n2; k++) { const t = t2 - t2 * k / n2; prof.push([D + R2 * Math.cos(t), R2 * Math.sin(t)]) }
+  const pos: number[] = [-R1, 0, 0]
+  for (const [x, r] of prof) for (let j = 0; j < around; j++) pos.push(x, r * Math.cos(j * step), r * Math.sin(j * step))
+  pos.push(D + R2, 0, 0)
+  const last = pos.length / 3 - 1
+  const ring = (k: number, j: number) => 1 + k * around + (j % around)
+  const idx: number[] = []
+  for (let j = 0; j < around; j++) {
+    idx.push(0, ring(0, j + 1), ring(0, j))
+    for (let k = 0; k + 1 < prof.length; k++) idx.push(ring(k, j), ring(k, j + 1), ring(k + 1, j + 1), ring(k, j), ring(k + 1, j + 1), ring(k + 1, j))
+    idx.push(last, ring(prof.length - 1, j), ring(prof.length - 1, j + 1))
+  }
+  return { positions: new Float64Array(pos), indices: new Uint32Array(idx) }
+}
+// Inscribed polygons: the volume is low by about (2π/around)²/6 around and along the profile (7e-4 at 96).
+const TOL = 3e-3
+
+describe('split a whole-body lobe at a plane (POST /api/lobes/:id/split)', () => {
+  let server: RunningServer
+  const analyst = {} as { agent: Agent }
+  let lobeId = 0
+  beforeAll(async () => {
+    server = await startServer({ ISTHMUS_DEMO: '1', ISTHMUS_FIELD_POINTS: '200' })
+    analyst.agent = new Agent(server.url)
+    await analyst.agent.signIn('analyst@example.org', 'isthmus-demo')
+    const res = await uploadLobe(analyst.agent, writePly(twoSphereUnion(96), 'binary_little_endian', { double: true }), 'two-spheres.ply', { density: '1500', units: 'km' })
+    expect(res.status, res.text).toBe(201)
+    lobeId = res.json.id
+    // The uploaded union in m³: the two balls minus the lens, up to the mesh resolution.
+    const lens = cap(R1, R1 - XI) + cap(R2, R2 - (D - XI))
+    expect(Math.abs(res.json.properties.volume / ((ball(R1) + ball(R2) - lens) * KM3) - 1)).toBeLessThan(TOL)
+  }, 120_000)
+  afterAll(() => server?.dispose())
+
+  async function volumes(lobes: { id: number }[]) {
+    return Promise.all(lobes.map(async l => (await analyst.agent.get(`/api/lobes/${l.id}`)).json.properties.volume as number))
+  }
+
+  it('takes the plane point in metres also for a lobe uploaded in km; the parts match the spherical-cap volumes', async () => {
+    const res = await analyst.agent.post(`/api/lobes/${lobeId}/split`, { plane: { point: [XI * 1000, 0, 0], normal: [1, 0, 0] } })
+    expect(res.status, res.text).toBe(201)
+    expect(res.json.lobes).toHaveLength(2)
+    // The plane comes back in metres, where it was asked for.
+    expect(res.json.plane.point[0]).toBeCloseTo(XI * 1000, 6)
+    // Part A is the +normal side (sphere 2's side), part B the −normal side.
+    const [vPos, vNeg] = await volumes(res.json.lobes)
+    expect(Math.abs(vPos! / V_POS - 1)).toBeLessThan(TOL)
+    expect(Math.abs(vNeg! / V_NEG - 1)).toBeLessThan(TOL)
+    // Reading the point as km (×1000 again) would put the plane 1.2e6 m away and leave no second part.
+    const far = await analyst.agent.post(`/api/lobes/${lobeId}/split`, { plane: { point: [XI * 1e6, 0, 0], normal: [1, 0, 0] } })
+    expect(far.status).toBe(422)
+  }, 120_000)
+
+  it('without a plane cuts at the neck, which for two spheres is the intersection circle', async () => {
+    const res = await analyst.agent.post(`/api/lobes/${lobeId}/split`, {})
+    expect(res.status, res.text).toBe(201)
+    const n = res.json.plane.normal as number[]
+    expect(Math.abs(n[0]!)).toBeGreaterThan(0.999)
+    // The section area of the union is smallest at x_i (the circle where the spheres meet).
+    expect(Math.abs(res.json.plane.point[0] - XI * 1000)).toBeLessThan(0.02 * 1000)
+    const [v1, v2] = await volumes(res.json.lobes)
+    const small = Math.min(v1!, v2!), large = Math.max(v1!, v2!)
+    // A plane shift δ changes the parts by about the neck area π(R1² − x_i²) δ: allow the 20 m above.
+    const slack = Math.PI * (R1 * R1 - XI * XI) * 0.02 * KM3
+    expect(Math.abs(small - V_POS)).toBeLessThan(TOL * V_POS + slack)
+    expect(Math.abs(large - V_NEG)).toBeLessThan(TOL * V_NEG + slack)
+  }, 120_000)
+})
