@@ -5,11 +5,11 @@ import { writePly } from '../../shared/geometry'
 import { decodeAnalysisMesh } from '../../shared/utils/mesh-binary'
 
 /** Turns a derived analysis mesh (metres) into a stored lobe of its own (binary PLY file). */
-export async function lobeFromAnalysisMesh(analysisPath: string, opts: { ownerId: number, name: string, fileName: string, density: number }) {
+export async function lobeFromAnalysisMesh(analysisPath: string, opts: { ownerId: number, name: string, fileName: string, density: number, extraWarnings?: { code: string, message: string }[] }) {
   const mesh = decodeAnalysisMesh(new Uint8Array(await readFile(analysisPath)))
   const bytes = writePly(mesh, 'binary_little_endian', { double: true })
   const sha256 = createHash('sha256').update(bytes).digest('hex')
   const filePath = join(uploadPaths().tmp, `derived-${sha256}-${process.hrtime.bigint()}`)
   await writeFile(filePath, bytes)
-  return ingestLobe({ filePath, size: bytes.length, sha256, originalName: opts.fileName, ownerId: opts.ownerId, name: opts.name, units: 'm', density: opts.density })
+  return ingestLobe({ filePath, size: bytes.length, sha256, originalName: opts.fileName, ownerId: opts.ownerId, name: opts.name, units: 'm', density: opts.density, extraWarnings: opts.extraWarnings })
 }

@@ -25,6 +25,8 @@ export interface IngestInput {
   density: number
   referenceRadius?: number
   spinPeriodHours?: number
+  /** Warnings the caller adds to the mesh report's own (e.g. what a derived lobe leaves out). */
+  extraWarnings?: { code: string, message: string }[]
 }
 
 /**
@@ -72,7 +74,7 @@ export async function ingestLobe(input: IngestInput) {
     spinPeriodHours: input.spinPeriodHours ?? null,
     vertexCount: analysed.report.vertexCount,
     faceCount: analysed.report.faceCount,
-    warnings: analysed.report.warnings,
+    warnings: [...analysed.report.warnings, ...(input.extraWarnings ?? [])],
     report: { ...analysed.report, sourceFaceCount: analysed.sourceFaceCount, triangulatedPolygons: analysed.triangulatedPolygons, timingsMs: analysed.timings },
     properties: analysed.properties,
     algorithmVersion: ALGORITHM_VERSION,

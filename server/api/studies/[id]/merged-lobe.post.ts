@@ -11,9 +11,15 @@ export default defineEventHandler(async (event) => {
   const { name } = await readBodyAs(event, body)
   const row = await loadStudy(useDB(), id)
   const path = studyMeshPaths(row.study.cacheKey).analysis
-  const merged = (row.study.result as { merged?: { density?: number } } | null)?.merged
+  const merged = (row.study.result as { merged?: { density?: number, densityA?: number, densityB?: number } } | null)?.merged
   if (row.study.status !== 'done' || !merged?.density || !existsSync(path)) throw createError({ status: 409, statusText: 'Conflict', message: 'This study has no merged body (not finished, or no contact)' })
-  const { lobe, job } = await lobeFromAnalysisMesh(path, { ownerId: actor.id, name: name ?? `${row.a.name} + ${row.b.name} (merged, study ${id})`, fileName: `study-${id}-merged.ply`, density: merged.density })
+  // A lobe is homogeneous: a two-density merged body is saved at its bulk density, which keeps
+  // its mass but not the centroid and inertia of the study's two-density body.
+  const twoDensity = merged.densityA !== undefined && merged.densityB !== undefined && merged.densityA !== merged.densityB
+  const extraWarnings = twoDensity
+    ? [{ code: 'homogenised-merged-body', message: `Saved at the merged body's bulk density ${merged.density.toPrecision(6)} kg m⁻³; the study modelled lobe A at ${merged.densityA!.toPrecision(6)} and lobe B at ${merged.densityB!.toPrecision(6)} kg m⁻³, so this lobe's centroid, inertia, J2 and C22 differ from the study's merged values.` }]
+    : []
+  const { lobe, job } = await lobeFromAnalysisMesh(path, { ownerId: actor.id, name: name ?? `${row.a.name} + ${row.b.name} (merged, study ${id})`, fileName: `study-${id}-merged.ply`, density: merged.density, extraWarnings })
   await audit(event, { actorId: actor.id, action: 'lobe.from-study', subjectType: 'lobe', subjectId: lobe.id, detail: { study: id } })
   setResponseStatus(event, 201)
   return lobeView(lobe, job, { id: actor.id, name: actor.name })
