@@ -1,0 +1,50 @@
+import { afterAll, beforeAll, describe, expect, it } from 'vitest'
+import { Agent } from './support/http'
+import { startServer, type RunningServer } from './support/server'
+
+/** The demo's contact study: seeded once, runs to the end on the workers, linked to the demo record. */
+describe('demo contact study', () => {
+  let server: RunningServer
+  beforeAll(async () => {
+    server = await startServer({ ISTHMUS_DEMO: '1', ISTHMUS_DEMO_STUDY: '1', ISTHMUS_FIELD_POINTS: '200' })
+  })
+  afterAll(() => server?.dispose())
+
+  async function demoStudies(viewer: Agent) {
+    const list = (await viewer.get('/api/studies')).json
+    return list.items.filter((s: { title: string | null }) => s.title?.startsWith('Demo:'))
+  }
+
+  it('finishes with a touching bound approach, a neck, a screen and a spread; a restart neither repeats nor fails it', async () => {
+    const viewer = new Agent(server.url)
+    await viewer.signIn('viewer@example.org', 'isthmus-demo')
+    const [seeded] = await demoStudies(viewer)
+    expect(seeded).toBeTruthy()
+    const deadline = Date.now() + 90_000
+    let study = (await viewer.get(`/api/studies/${seeded.id}`)).json
+    while (study.status === 'queued' || study.status === 'running') {
+      if (Date.now() > deadline) throw new Error(`demo study still ${study.status} at ${study.stage}`)
+      await new Promise(r => setTimeout(r, 500))
+      study = (await viewer.get(`/api/studies/${seeded.id}`)).json
+    }
+    expect(study.status, study.error).toBe('done')
+    const r = study.result
+    // Bound orbit a = 30 km, e = 0.5: contact exists iff q = 15 km ≤ d ≤ Q = 45 km (two-body
+    // geometry, SCIENCE.md §5), and vis-viva at d gives v² = GM(2/d − 1/a) < escape speed².
+    expect(r.contact.separation).toBeGreaterThan(15_000)
+    expect(r.contact.separation).toBeLessThan(45_000)
+    expect(r.contact.speed).toBeLessThan(r.contact.escapeSpeed)
+    expect(r.neck.overlapDepth).toBe(600)
+    expect(r.neck.area).toBeGreaterThan(0)
+    expect(r.screen.hillRadius).toBeGreaterThan(0)
+    expect(r.spread.samples).toBe(32)
+
+    const record = (await viewer.get('/api/objects?q=2041%20KD9')).json.items[0]
+    const links = (await viewer.get(`/api/objects/${record.id}`)).json.links
+    expect(links.studies.map((s: { id: number }) => s.id)).toContain(seeded.id)
+
+    await server.restart()
+    const after = await demoStudies(viewer)
+    expect(after.map((s: { id: number, status: string }) => [s.id, s.status])).toEqual([[seeded.id, 'done']])
+  })
+})
