@@ -97,6 +97,11 @@ export interface MergedBody {
   tumbleAngleDeg: number | null
   /** √(3π/(Gρ)) at the merged bulk density, s. */
   breakupSpinPeriod: number
+  /**
+   * d used by the separation periods and the neck stress: the lobe-centroid separation after the
+   * settling move (first-contact separation − overlap depth), m.
+   */
+  separation: number
   /** 2π√(d³/(GM)) (lobes as point masses), s, and with the full-shape attraction when given. */
   separationSpinPeriod: number
   separationSpinPeriodFullShape: number | null
@@ -238,6 +243,7 @@ export function mergedBody(input: MergedInput): MergedBody {
     relaxedSpinPeriod: spinning ? 2 * Math.PI * Cm / Lmag : null,
     tumbleAngleDeg: tumble === null ? null : Math.min(tumble, 180 - tumble),
     breakupSpinPeriod: breakupSpinPeriod(M / volume),
+    separation: d,
     separationSpinPeriod: sep,
     separationSpinPeriodFullShape: sepFull,
     minimumDensityForObservedPeriod: input.observedSpinPeriod

@@ -66,6 +66,13 @@ export interface PathwayScreen {
   /** ϖ̇_J2 · t_KL; ≳ 1 means J2 precession quenches the cycles. */
   quenchParameter: number
   j2QuenchesKozai: boolean
+  /**
+   * The screen's conclusion: 'outside-window' (no Kozai–Lidov cycles at this inclination),
+   * 'quenched' (in the window, but ϖ̇·t_KL ≥ 1: J2 precession suppresses the cycles), or
+   * 'not-quenched' (cycles can grow e toward e_max; `minimumPericentreReachesContact` then says
+   * whether they could bring the lobes into contact).
+   */
+  verdict: 'outside-window' | 'quenched' | 'not-quenched'
   caveats: string
 }
 
@@ -115,6 +122,7 @@ export function pathwayScreen(s: ScreenInput): PathwayScreen {
     j2PrecessionRate: wA + wB,
     quenchParameter: quench,
     j2QuenchesKozai: quench >= 1,
+    verdict: !inWindow ? 'outside-window' : quench >= 1 ? 'quenched' : 'not-quenched',
     caveats: 'Screen only: quadrupole test-particle Kozai–Lidov from e0≈0 (no octupole, no tides, no '
       + 'YORP/BYORP); J2 rates for an equatorial orbit with each lobe\'s own J2 and radius; '
       + 'quenching judged by ϖ̇·t_KL ≳ 1 (order of magnitude).',

@@ -96,6 +96,8 @@ describe('pathwayScreen', () => {
     expect(s.j2PrecessionRateA).toBeCloseTo(2.269344e-6, 11)
     expect(s.quenchParameter).toBeCloseTo(2 * 2.269344e-6 * 4.730506e10, -1)
     expect(s.j2QuenchesKozai).toBe(true)
+    // ϖ̇·t_KL ≈ 2.1×10⁵ ≫ 1: quenched (Liu, Muñoz & Lai 2015 [mem threshold]; Fang & Margot 2012).
+    expect(s.verdict).toBe('quenched')
     expect(s.klPrefactor).toBeCloseTo(8 / (15 * Math.PI), 15)
   })
   it('outside the Kozai window (i = 30°) e_max stays at e0 ≈ 0', () => {
@@ -103,5 +105,15 @@ describe('pathwayScreen', () => {
     expect(s.inKozaiWindow).toBe(false)
     expect(s.eMax).toBe(0)
     expect(s.minimumPericentreReachesContact).toBe(false)
+    expect(s.verdict).toBe('outside-window')
+  })
+  it('without J2 (spherical lobes) nothing precesses: in the window the cycles are not quenched', () => {
+    // ϖ̇ = (3/2) n J2 (R/a)² = 0 for J2 = 0 (Murray & Dermott 1999 ch. 6 [mem eq.]), so ϖ̇·t_KL = 0 < 1.
+    const s = pathwayScreen({ ...input, J2A: 0, J2B: 0 })
+    expect(s.quenchParameter).toBe(0)
+    expect(s.verdict).toBe('not-quenched')
+    // Window edges: cos² i = 3/5 at i = 39.23° (Kozai 1962; Lidov 1962 [mem]).
+    expect(pathwayScreen({ ...input, J2A: 0, J2B: 0, inclinationDeg: 39 }).verdict).toBe('outside-window')
+    expect(pathwayScreen({ ...input, J2A: 0, J2B: 0, inclinationDeg: 39.5 }).verdict).toBe('not-quenched')
   })
 })

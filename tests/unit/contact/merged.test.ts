@@ -39,7 +39,8 @@ describe('merged body', () => {
     expect(m.spinPeriod).toBeCloseTo(2 * Math.PI * m.inertia[2][2] / 3e6, 6)
     expect(m.relaxedSpinPeriod).toBeCloseTo(2 * Math.PI * m.principalMoments[2] / 3e6, 6)
     expect(m.tumbleAngleDeg).toBeLessThan(1e-6)
-    // Point-mass separation period 2π√(d³/(GM)).
+    // Point-mass separation period 2π√(d³/(GM)) (Kepler's third law, SCIENCE.md §5), with the d it reports.
+    expect(m.separation).toBe(d)
     expect(m.separationSpinPeriod / (2 * Math.PI * Math.sqrt(d ** 3 / (G * (pA.mass + pB.mass))))).toBeCloseTo(1, 12)
     // Neck stress, SCIENCE.md §6: F_n = m_B(ω²r_B − G m_A/d²) over the area.
     expect(m.spinPeriod).not.toBeNull()

@@ -43,6 +43,10 @@ describe('runContactStudy', () => {
     expect(Math.abs(c.escapeSpeedFullShape / c.escapeSpeed - 1)).toBeLessThan(tolW)
     expect(r.neck!.equivalentRadius).toBeGreaterThan(0)
     expect(r.merged!.massModel).toBe('conserve-mass')
+    // The separation period uses the centroid separation after the 60 m settling move, and says so:
+    // P = 2π√(d³/(GM)) with that d (Kepler's third law, SCIENCE.md §5).
+    expect(r.merged!.separation).toBeCloseTo(c.separation - 60, 9)
+    expect(r.merged!.separationSpinPeriod / (2 * Math.PI * Math.sqrt(r.merged!.separation ** 3 / (G * (pA.mass + pB.mass))))).toBeCloseTo(1, 9)
     expect(r.sweep).toHaveLength(3)
     // The sweep uses planes perpendicular to the line of centres and says so on each row.
     for (const row of r.sweep!) expect(row.tiltDeg).toBe(0)
@@ -51,7 +55,7 @@ describe('runContactStudy', () => {
     expect(stages.at(-1)).toBe('done')
     for (const k of ['separation', 'point', 'normalA', 'normalB', 'poseB', 'speed', 'escapeSpeed', 'sphereEquivalentEscapeSpeed', 'speedRatio', 'radialSpeed', 'tangentialSpeed', 'normalSpeed', 'impactAngleFromNormalDeg', 'impactAngleFromTangentDeg', 'orbitalAngularMomentum', 'massRatio', 'speedFullShape', 'escapeSpeedFullShape'])
       expect(c).toHaveProperty(k)
-    for (const k of ['massModel', 'volume', 'mass', 'centroid', 'principalMoments', 'principalAxes', 'J2', 'C22', 'referenceRadius', 'spinPeriod', 'spinAxis', 'relaxedSpinPeriod', 'tumbleAngleDeg', 'breakupSpinPeriod', 'separationSpinPeriod', 'neckStress'])
+    for (const k of ['massModel', 'volume', 'mass', 'centroid', 'principalMoments', 'principalAxes', 'J2', 'C22', 'referenceRadius', 'spinPeriod', 'spinAxis', 'relaxedSpinPeriod', 'tumbleAngleDeg', 'breakupSpinPeriod', 'separation', 'separationSpinPeriod', 'neckStress'])
       expect(r.merged).toHaveProperty(k)
   }, 60_000)
 
