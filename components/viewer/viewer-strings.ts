@@ -64,7 +64,7 @@ export const VIEWER_STRINGS = {
   showLobes: 'Show the two lobes',
   approach: 'Approach',
   approachHelp: '0 = contact; 1 = lobe B drawn back along the line of centres by twice the sum of the lobe radii.',
-  approachValue: (metres: string) => `B moved back by ${metres}`,
+  approachHelpWithOffset: (metres: string) => `0 = contact; 1 = lobe B drawn back along the line of centres by twice the sum of the lobe radii. B moved back by ${metres}.`,
   markers: 'Markers',
   legendLobeA: (name: string) => `Lobe A — ${name}`,
   legendLobeB: (name: string) => `Lobe B — ${name}`,
@@ -74,7 +74,8 @@ export const VIEWER_STRINGS = {
   legendMergedCentroid: 'Centroid of the merged body',
   legendMergedAxes: 'Principal axes of the merged body (smallest, middle, largest moment)',
   noContact: 'The lobes never touch on this approach; they are drawn in their starting poses without contact marks.',
-  studyNotDone: (status: string) => `The study is ${status}; the view appears once it has finished.`,
+  studyNotDone: (status: string) => `The study ${status === 'failed' ? 'failed' : status === 'cancelled' ? 'was cancelled' : `is ${status}`}: there is nothing to draw.`,
+  studyPending: (percent: number) => `The study is still running (${percent} %); the view appears once it has finished.`,
   unionMissing: 'The union surface is not available for this study.',
   contactFrameNote: 'Contact frame: lobe A’s axes, origin at lobe A’s centroid.',
 } as const

@@ -64,15 +64,36 @@ async function runStudy(db: DB, study: Study, a: Lobe, b: Lobe) {
   const ctl = new AbortController()
   controllers.set(study.id, ctl)
   const input = study.input as unknown as StudyInput & { densityA: number, densityB: number }
+  // Progress goes to the row at most every 200 ms, but never lost: a new stage is written at once,
+  // and the latest report within a stage is written when the interval ends (a trailing write).
   let last = 0
-  const report = (progress: number, stage: string) => {
-    const now = Date.now()
-    if (now - last < 200) return
-    last = now
+  let lastStage = ''
+  let pending: { progress: number, stage: string } | null = null
+  let timer: ReturnType<typeof setTimeout> | undefined
+  const write = (progress: number, stage: string) => {
+    last = Date.now()
+    lastStage = stage
     void db.update(schema.studies).set({ progress, stage }).where(and(eq(schema.studies.id, study.id), eq(schema.studies.status, 'running')))
   }
+  const report = (progress: number, stage: string) => {
+    const now = Date.now()
+    if (stage !== lastStage || now - last >= 200) {
+      pending = null
+      write(progress, stage)
+      return
+    }
+    pending = { progress, stage }
+    timer ??= setTimeout(() => {
+      timer = undefined
+      if (pending) write(pending.progress, pending.stage)
+      pending = null
+    }, Math.max(0, 200 - (now - last)))
+  }
   try {
-    await db.update(schema.studies).set({ status: 'running', startedAt: new Date(), stage: 'waiting for a worker' }).where(eq(schema.studies.id, study.id))
+    // Other studies on the workers now (a cheap count; the pool's own queue also holds lobe jobs).
+    const others = (await db.select({ id: schema.studies.id }).from(schema.studies).where(eq(schema.studies.status, 'running'))).filter(r => r.id !== study.id).length
+    const waiting = others ? `waiting for a free worker (${others} other ${others === 1 ? 'study' : 'studies'} running)` : 'waiting for a free worker'
+    await db.update(schema.studies).set({ status: 'running', startedAt: new Date(), stage: waiting }).where(eq(schema.studies.id, study.id))
     const propsA = a.properties as unknown as MassProperties
     const orbitA = input.orbit.kind === 'bound' ? input.orbit.semiMajorAxis : undefined
     const paths = studyMeshPaths(study.cacheKey)
@@ -116,6 +137,7 @@ async function runStudy(db: DB, study: Study, a: Lobe, b: Lobe) {
     if (!cancelled) console.error(`[isthmus] study ${study.id} failed:`, error)
   }
   finally {
+    clearTimeout(timer)
     controllers.delete(study.id)
   }
 }

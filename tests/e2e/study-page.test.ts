@@ -9,6 +9,9 @@ describe('in a real browser: the study result page', () => {
   let server: RunningServer
   let browser: Awaited<ReturnType<typeof openBrowser>>
   let studyId: number
+  let missId: number
+  let lobeIds: [number, number]
+  let masses: number
   beforeAll(async () => {
     server = await startServer({ ISTHMUS_DEMO: '1', ISTHMUS_FIELD_POINTS: '200' })
     const analyst = new Agent(server.url)
@@ -18,6 +21,11 @@ describe('in a real browser: the study result page', () => {
     const prior = { kind: 'uniform', min: 400, max: 1200 }
     const res = await analyst.post('/api/studies', { lobeA: a.id, lobeB: b.id, direction: [1, 0, 0], orbit: { kind: 'parabolic' }, overlapDepth: 40, sweepSteps: 3, spread: { seed: 2, samples: 12, densityA: prior, densityB: prior, coneHalfAngleDeg: 10, scale: { kind: 'fixed', value: 1 }, neck: false } })
     studyId = (await waitForStudy(analyst, res.json.id)).id
+    // A bound orbit whose pericentre (5 km) is far beyond the 1.7 km contact separation, with a spread asked for.
+    const miss = await analyst.post('/api/studies', { lobeA: a.id, lobeB: b.id, direction: [0, 1, 0], orbit: { kind: 'bound', semiMajorAxis: 10_000, eccentricity: 0.5 }, spread: { seed: 1, samples: 4, densityA: prior, densityB: prior, coneHalfAngleDeg: 0, scale: { kind: 'fixed', value: 1 } } })
+    missId = (await waitForStudy(analyst, miss.json.id)).id
+    lobeIds = [a.id, b.id]
+    masses = a.properties.mass + b.properties.mass
     browser = await openBrowser()
   })
   afterAll(async () => {
@@ -53,5 +61,52 @@ describe('in a real browser: the study result page', () => {
     expect(xMax).toBeGreaterThanOrEqual(Math.max(...densities))
     await expect.poll(() => page.getByTestId('spin-period').innerText()).toMatch(/no spin/)
     expect(await page.locator('main').innerText()).toContain('Priors: density of A uniform 400–1200 kg m⁻³')
+
+    // The separation period follows from the d shown beside it: d = first-contact separation − 40 m
+    // settling, P = 2π√(d³/(GM)) (Kepler's third law, SCIENCE.md §5), in hours with "h" in the unit column.
+    const result = (await (await page.request.get(`${server.url}/api/studies/${studyId}`)).json()).result
+    const d = Number(await page.getByTestId('settled-separation').innerText())
+    expect(d / (result.contact.separation - 40)).toBeCloseTo(1, 4)
+    const G = 6.67430e-11 // CODATA 2018
+    const period = page.getByTestId('separation-period')
+    expect(Number(await period.innerText()) / (2 * Math.PI * Math.sqrt(d ** 3 / (G * masses)) / 3600)).toBeCloseTo(1, 2)
+    expect(await period.locator('xpath=following-sibling::td').innerText()).toBe('h')
+
+    // On a phone the result tables stay inside their cards (they scroll there if need be).
+    await page.setViewportSize({ width: 390, height: 844 })
+    const overflow = await page.locator('section.panel').evaluateAll(els => els.map(e => e.getBoundingClientRect().right).filter(r => r > window.innerWidth + 0.5))
+    expect(overflow).toEqual([])
+    await page.close()
+  })
+
+  it('says once, plainly, when the lobes miss; lists no contact marks; marks the study "no contact" in the list', async () => {
+    const page = await browser.context.newPage()
+    await page.goto(`${server.url}/studies/${missId}`)
+    const text = await page.getByTestId('no-contact').innerText()
+    expect(text).toMatch(/pericentre q = 5000 m is beyond the contact separation/)
+    expect(text.match(/without touching|never touch/g)).toHaveLength(1)
+    expect(text).toContain('spread over uncertain inputs was not run')
+    const legend = await page.getByTestId('joined-legend').innerText()
+    expect(legend).toContain('Lobe A')
+    for (const mark of ['First-contact point', 'Neck outline', 'Centroid of the merged body', 'Principal axes']) expect(legend).not.toContain(mark)
+    await page.goto(`${server.url}/studies`)
+    expect(await page.getByTestId(`study-state-${missId}`).innerText()).toBe('no contact')
+    expect(await page.getByTestId(`study-state-${studyId}`).innerText()).toBe('done')
+    await page.close()
+  })
+
+  it('warns in the New study form when the orbit surely misses, and defaults a bound orbit to one that touches', async () => {
+    const signIn = await browser.context.request.post(`${server.url}/api/session`, { data: { email: 'analyst@example.org', password: 'isthmus-demo' }, headers: { origin: server.url } })
+    expect(signIn.status()).toBe(200)
+    const page = await browser.context.newPage()
+    await page.goto(`${server.url}/studies/new?lobeA=${lobeIds[0]}&lobeB=${lobeIds[1]}`)
+    await page.getByLabel('Kind').selectOption('bound')
+    // Default a = 4 × (1000 + 700) m, q = ½ (R_eq,A + R_eq,B) < d: no warning.
+    await expect.poll(() => page.getByTestId('orbit-pericentre').innerText()).toMatch(/Pericentre q = 0\.8\d* km/)
+    expect(await page.getByTestId('contact-warning').count()).toBe(0)
+    await page.getByLabel('Eccentricity').fill('0')
+    // q = a = 6.8 km > 1.7 km, the sum of the largest radii: the lobes cannot touch.
+    await expect.poll(() => page.getByTestId('contact-warning').innerText()).toMatch(/cannot touch/)
+    await page.close()
   })
 })

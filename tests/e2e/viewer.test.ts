@@ -183,6 +183,25 @@ describe('the 3D views in a real browser (software WebGL)', () => {
     await page.close()
   })
 
+  it('keeps the toolbar tidy: Save PNG on the first row at 1400 px, the "Look along" label beside its buttons on a phone', async () => {
+    const page = await browser.context.newPage()
+    await page.setViewportSize({ width: 1400, height: 900 })
+    await page.goto(`${server.url}/lobes/${ball.id}`)
+    await expect.poll(() => page.getByTestId('viewer-canvas').getAttribute('data-first-frame-ms'), { timeout: 30_000 }).toBeTruthy()
+    const centreY = async (l: ReturnType<Page['locator']>) => {
+      const b = (await l.boundingBox())!
+      return b.y + b.height / 2
+    }
+    const reset = page.getByRole('button', { name: 'Reset view' })
+    expect(Math.abs(await centreY(page.getByTestId('save-png')) - await centreY(reset))).toBeLessThan(4)
+    await page.setViewportSize({ width: 390, height: 844 })
+    const group = page.getByTestId('look-along')
+    const label = page.getByTestId('look-along-label')
+    const first = group.getByRole('button').first()
+    await expect.poll(async () => Math.abs(await centreY(label) - await centreY(first))).toBeLessThan(4)
+    await page.close()
+  })
+
   it('says so when WebGL is unavailable', async () => {
     const page = await browser.context.newPage()
     await page.addInitScript(() => {
@@ -280,6 +299,15 @@ describe('the 3D views in a real browser (software WebGL)', () => {
     // 0.2 × 2 (R_A + R_B) = 640 m, seen at wpp metres per pixel (the view's scale does not change).
     expect(Number(await canvas.getAttribute('data-world-per-pixel'))).toBe(wpp)
     expect(shiftPx * wpp / 640).toBeCloseTo(1, 1)
+    // The help text and the offset read as two sentences.
+    expect(await page.getByTestId('approach-help').innerText()).toMatch(/lobe radii\. B moved back by 640 m\.$/)
+    // The legend names what is drawn: contact point, merged centroid and axes; the neck ring only
+    // when the study has an outline to draw (a point contact has none).
+    await page.getByLabel('Markers').check()
+    const legend = await page.getByTestId('joined-legend').innerText()
+    expect(legend).toContain('First-contact point')
+    expect(legend).toContain('Centroid of the merged body')
+    expect(legend.includes('Neck outline')).toBe((study.result.neck?.outline?.length ?? 0) >= 3)
     await page.close()
   })
 })
