@@ -73,7 +73,9 @@ async function runStudy(db: DB, study: Study, a: Lobe, b: Lobe) {
   const write = (progress: number, stage: string) => {
     last = Date.now()
     lastStage = stage
-    void db.update(schema.studies).set({ progress, stage }).where(and(eq(schema.studies.id, study.id), eq(schema.studies.status, 'running')))
+    // Drizzle builders run only when awaited or then-ed: catch() starts the write without waiting for it.
+    db.update(schema.studies).set({ progress, stage }).where(and(eq(schema.studies.id, study.id), eq(schema.studies.status, 'running')))
+      .catch(() => undefined)
   }
   const report = (progress: number, stage: string) => {
     const now = Date.now()

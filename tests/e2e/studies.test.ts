@@ -100,7 +100,11 @@ describe('contact studies through the API', () => {
   it('cancels a running study, and marks a study interrupted by a restart as failed', async () => {
     const spread = { seed: 7, samples: 400, densityA: { kind: 'uniform', min: 500, max: 1500 }, densityB: { kind: 'uniform', min: 500, max: 1500 }, coneHalfAngleDeg: 20, scale: { kind: 'fixed', value: 1 } }
     const res = await as.analyst.post('/api/studies', { lobeA: a.id, lobeB: b.id, direction: [0, 0, 1], orbit: { kind: 'parabolic' }, overlapDepth: 0.1, spread })
-    await new Promise(r => setTimeout(r, 300))
+    // Progress reaches the row while the study runs: the stage moves on from waiting and the fraction grows.
+    await expect.poll(async () => {
+      const s = (await as.viewer.get(`/api/studies/${res.json.id}`)).json
+      return s.status === 'running' && s.stage === 'spread' && s.progress > 0.6 && s.progress < 1
+    }, { timeout: 20_000, interval: 100 }).toBe(true)
     expect((await as.reviewer.post(`/api/studies/${res.json.id}/cancel`)).status).toBe(403)
     const cancel = await as.analyst.post(`/api/studies/${res.json.id}/cancel`)
     expect(cancel.status).toBe(200)
