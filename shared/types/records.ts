@@ -1,5 +1,5 @@
 import { z } from 'zod'
-import { RECORD_SUBJECTS, quantityDef } from './quantities'
+import { RECORD_SUBJECTS, STUDY_ONLY_SUBJECTS, quantityDef } from './quantities'
 
 /** One schema per form, used by the record pages and the handlers. */
 
@@ -80,7 +80,7 @@ const quantityKeys = z.array(z.string().refine(k => !!quantityDef(k), { message:
 export const attachSchema = z.union([
   z.object({
     lobe: z.number().int().positive(),
-    subject: z.enum(RECORD_SUBJECTS).exclude(['merged-body']).default('whole-body'),
+    subject: z.enum(RECORD_SUBJECTS).exclude([...STUDY_ONLY_SUBJECTS]).default('whole-body'),
     quantities: quantityKeys,
     note: z.string().trim().max(2000).default(''),
   }).strict(),
