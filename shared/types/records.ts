@@ -69,6 +69,11 @@ export const objectListQuerySchema = z.object({
   order: z.enum(['asc', 'desc']).default('asc'),
   limit: z.coerce.number().int().min(1).max(200).default(25),
   offset: z.coerce.number().int().min(0).default(0),
+  /**
+   * `review`: only records with values awaiting review that the caller did not propose, with
+   * `awaitingCount`. `mine`: only records where the caller proposed values, with `mine` counts by state.
+   */
+  awaiting: z.enum(['review', 'mine']).optional(),
 })
 export type ObjectListQuery = z.infer<typeof objectListQuerySchema>
 
