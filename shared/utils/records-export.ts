@@ -299,14 +299,18 @@ const SECONDS_PER_HOUR = 3600
 /** Spread fields that are counts or seeds, never rescaled with the unit. */
 const UNSCALED_SPREAD_FIELDS = new Set(['n', 'samples', 'seed', 'contacts'])
 
+export interface RecordDisplayValue {
+  value: number | number[]
+  spread: Record<string, number | string> | null
+  unit: string
+  exact: string
+}
 /**
  * A value as the record pages show it: periods stored in seconds are shown in hours (the spread
  * rescaled with them), everything else as stored. `exact` is the stored value in its stored unit
  * at full precision, for a tooltip. Exports never use this (they stay SI).
  */
-export function recordDisplay(value: number | number[], spread: Record<string, number | string> | null, unit: string): {
-  value: number | number[], spread: Record<string, number | string> | null, unit: string, exact: string
-} {
+export function recordDisplay(value: number | number[], spread: Record<string, number | string> | null, unit: string): RecordDisplayValue {
   const exact = recordValueText(value)
   if (unit !== 's') return { value, spread, unit, exact }
   const h = (x: number) => x / SECONDS_PER_HOUR
