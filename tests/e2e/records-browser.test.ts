@@ -127,6 +127,33 @@ describe('in a real browser: create a record, attach from a lobe, review, read t
     await page.close()
   })
 
+  it('shows a spread with its own centre and a note when it is off the value, and periods in hours with the seconds on hover', async () => {
+    const rec = (await as.analyst.get('/api/objects?q=2052%20BW7')).json.items[0]
+    const lobes = (await as.analyst.get('/api/lobes?limit=2')).json.items
+    // A finished study row inserted directly (invented numbers, not physics): the escape-speed spread
+    // was drawn over inputs the nominal run did not use, so it is centred well above the value.
+    const result = {
+      contact: { speed: 3.2, escapeSpeed: 3.32688 },
+      merged: { spinPeriod: 42882.7 },
+      spread: { seed: 3, samples: 40, contacts: 40, priors: 'densities uniform 300–1200 kg m⁻³', escapeSpeed: { min: 3.07, median: 4.07259, max: 5.22, mean: 4.073, std: 0.517743, n: 40 }, speed: null, spinPeriod: null, neckRadius: null, mergedJ2: null },
+    }
+    const ins = await server.sql().execute({
+      sql: `insert into studies (owner_id, lobe_a_id, lobe_b_id, title, input, cache_key, status, progress, result, algorithm_version, finished_at)
+            values ((select id from users where email = 'analyst@example.org'), ?, ?, 'spread check', '{}', 'kb1', 'done', 1, ?, 'test', ?) returning id`,
+      args: [lobes[0].id, lobes[1]?.id ?? lobes[0].id, JSON.stringify(result), Date.now()],
+    })
+    const attached = await as.analyst.post(`/api/objects/${rec.id}/attachments`, { study: Number(ins.rows[0]![0]), quantities: ['contact.escapeSpeed', 'merged.spinPeriod'] })
+    expect(attached.status, attached.text).toBe(201)
+    const page = await signIn('analyst@example.org', `/objects/${rec.id}`)
+    const [esc, spin] = attached.json.items.map((a: any) => page.locator(`[data-proposed="${a.id}"]`))
+    await expect.poll(() => esc!.innerText()).toContain('lobe pair (approach) = 3.32688 m s⁻¹ (study spread over sampled inputs: median 4.07259, mean 4.073, σ 0.517743, range [3.07, 5.22], n 40)')
+    expect(await esc!.getByTestId('spread-note').innerText()).toMatch(/not centred on the nominal value: its centre 4\.07259 m s⁻¹ lies 0\.74571 m s⁻¹ above it, 1\.44σ/)
+    // 42882.7 s = 11.9119 h (÷ 3600); the exact stored seconds stay in the title.
+    expect(await spin!.getByTestId('value-text').innerText()).toBe('11.9119 h')
+    expect(await spin!.getByTestId('value-text').getAttribute('title')).toBe('42882.7 s')
+    await page.close()
+  })
+
   it('gives reviewers an "awaiting your review" list on the overview, linking to each record', async () => {
     const rec = (await as.analyst.get('/api/objects?q=2052%20BW7')).json.items[0]
     const page = await signIn('reviewer@example.org', '/')
