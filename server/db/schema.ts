@@ -236,7 +236,7 @@ export const attachments = sqliteTable('attachments', {
   id: integer('id').primaryKey({ autoIncrement: true }),
   objectId: integer('object_id').notNull().references(() => objects.id),
   quantityKey: text('quantity_key').notNull(),
-  subject: text('subject').$type<'lobe-a' | 'lobe-b' | 'whole-body' | 'merged-body'>().notNull(),
+  subject: text('subject').$type<'lobe-a' | 'lobe-b' | 'whole-body' | 'merged-body' | 'lobe-pair'>().notNull(),
   value: text('value', { mode: 'json' }).$type<number | number[]>().notNull(),
   unit: text('unit').notNull(),
   spread: text('spread', { mode: 'json' }).$type<Record<string, number | string> | null>(),

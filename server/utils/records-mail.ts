@@ -1,11 +1,12 @@
-import { recordSpreadText, recordValueText } from '../../shared/utils/records-export'
+import { recordSpreadNote, recordSpreadText, recordValueText } from '../../shared/utils/records-export'
 
 interface MailValue { id: number, label: string, subjectLabel: string, value: number | number[], unit: string, spread: Record<string, number | string> | null, referenceRadius: number | null }
 
 function line(v: MailValue): string {
   const spread = recordSpreadText(v.spread)
   const r = v.referenceRadius === null ? '' : ` (reference radius ${v.referenceRadius} m)`
-  return `- #${v.id} ${v.label}, ${v.subjectLabel}: ${recordValueText(v.value)} ${v.unit}${spread ? ` ${spread}` : ''}${r}`
+  const note = recordSpreadNote(v.value, v.spread, v.unit)
+  return `- #${v.id} ${v.label}, ${v.subjectLabel}: ${recordValueText(v.value)} ${v.unit}${spread ? ` ${spread}` : ''}${r}${note ? `\n    Note: ${note}` : ''}`
 }
 
 const FOOTER = [

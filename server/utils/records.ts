@@ -4,6 +4,7 @@ import type { Attachment, AttachmentComment, Lobe, ObjectRecord, Study } from '.
 import { quantityDef, RECORD_SUBJECT_LABELS, type RecordSubject } from '../../shared/types/quantities'
 import type { RecordMailKind, HeliocentricOrbit } from '../../shared/types/records'
 import { idParamSchema } from '../../shared/types/account'
+import { recordSpreadNote } from '../../shared/utils/records-export'
 
 /** Printed with every record, export and citation: the values are model estimates. */
 export const RECORD_CAUTIONS = [
@@ -47,6 +48,8 @@ export function attachmentView(a: Attachment, names: Map<number, string>) {
     value: a.value,
     unit: a.unit,
     spread: a.spread,
+    /** Plain note when a study spread is not centred on the value (it sampled other inputs), else ''. */
+    spreadNote: recordSpreadNote(a.value, a.spread, a.unit),
     /** m; null for quantities without one. */
     referenceRadius: a.referenceRadius,
     source: a.lobeId !== null ? { type: 'lobe' as const, id: a.lobeId } : { type: 'study' as const, id: a.studyId },

@@ -7,14 +7,27 @@
  * Pure TypeScript: used by the attach dialog, the handlers and the unit tests.
  */
 
-export const RECORD_SUBJECTS = ['lobe-a', 'lobe-b', 'whole-body', 'merged-body'] as const
+/**
+ * What a value describes. `lobe-pair` is the two lobes on their approach (contact speed, escape
+ * speeds, impact angles, mass ratio): a property of the encounter, not of any one body. Values stored
+ * before that subject existed were moved to it by migration 0005 (subject and supersede group together).
+ */
+export const RECORD_SUBJECTS = ['lobe-a', 'lobe-b', 'whole-body', 'merged-body', 'lobe-pair'] as const
 export type RecordSubject = (typeof RECORD_SUBJECTS)[number]
 export const RECORD_SUBJECT_LABELS: Record<RecordSubject, string> = {
   'lobe-a': 'lobe A',
   'lobe-b': 'lobe B',
   'whole-body': 'whole body',
   'merged-body': 'merged body',
+  'lobe-pair': 'lobe pair (approach)',
 }
+/** Subjects only a study can give (a single lobe never stands for them). */
+export const STUDY_ONLY_SUBJECTS = ['merged-body', 'lobe-pair'] as const satisfies readonly RecordSubject[]
+/** Quantities that describe the pair on its approach (subject `lobe-pair`). */
+export const PAIR_QUANTITY_KEYS = [
+  'contact.speed', 'contact.escapeSpeed', 'contact.speedFullShape', 'contact.escapeSpeedFullShape', 'contact.speedRatio',
+  'contact.impactAngleFromNormalDeg', 'contact.impactAngleFromTangentDeg', 'contact.normalSpeed', 'contact.massRatio',
+] as const
 
 export type QuantitySource = 'lobe' | 'study'
 /** A scalar, or a fixed-length vector such as principal moments [A, B, C]. */
@@ -74,16 +87,16 @@ export const RECORD_QUANTITIES: readonly QuantityDef[] = [
   lobe('surfaceGravity', 'Surface gravity (mean over the surface)', 'm s⁻²', { path: ['surface', 'surfaceGravity'], summary: 'mean-with-range' }),
   lobe('slopeDeg', 'Surface slope (mean over the surface)', 'deg', { path: ['surface', 'slopeDeg'], summary: 'mean-with-range' }),
 
-  // Contact study: kinematics of the join (the two-lobe system).
-  study('contact.speed', 'Contact speed', 'm s⁻¹', 'whole-body', { spreadKey: 'speed' }),
-  study('contact.escapeSpeed', 'Mutual escape speed at contact', 'm s⁻¹', 'whole-body', { spreadKey: 'escapeSpeed' }),
-  study('contact.speedFullShape', 'Contact speed with the full-shape attraction', 'm s⁻¹', 'whole-body'),
-  study('contact.escapeSpeedFullShape', 'Mutual escape speed with the full-shape attraction', 'm s⁻¹', 'whole-body'),
-  study('contact.speedRatio', 'Contact speed / mutual escape speed', '1', 'whole-body'),
-  study('contact.impactAngleFromNormalDeg', 'Impact angle from the contact normal', 'deg', 'whole-body'),
-  study('contact.impactAngleFromTangentDeg', 'Impact angle from the tangent plane', 'deg', 'whole-body'),
-  study('contact.normalSpeed', 'Speed along the contact normal', 'm s⁻¹', 'whole-body'),
-  study('contact.massRatio', 'Mass ratio (smaller / larger)', '1', 'whole-body'),
+  // Contact study: kinematics of the approach (the lobe pair), then the neck of the joined body.
+  study('contact.speed', 'Contact speed', 'm s⁻¹', 'lobe-pair', { spreadKey: 'speed' }),
+  study('contact.escapeSpeed', 'Mutual escape speed at contact', 'm s⁻¹', 'lobe-pair', { spreadKey: 'escapeSpeed' }),
+  study('contact.speedFullShape', 'Contact speed with the full-shape attraction', 'm s⁻¹', 'lobe-pair'),
+  study('contact.escapeSpeedFullShape', 'Mutual escape speed with the full-shape attraction', 'm s⁻¹', 'lobe-pair'),
+  study('contact.speedRatio', 'Contact speed / mutual escape speed', '1', 'lobe-pair'),
+  study('contact.impactAngleFromNormalDeg', 'Impact angle from the contact normal', 'deg', 'lobe-pair'),
+  study('contact.impactAngleFromTangentDeg', 'Impact angle from the tangent plane', 'deg', 'lobe-pair'),
+  study('contact.normalSpeed', 'Speed along the contact normal', 'm s⁻¹', 'lobe-pair'),
+  study('contact.massRatio', 'Mass ratio (smaller / larger)', '1', 'lobe-pair'),
   study('neck.equivalentRadius', 'Neck equivalent radius', 'm', 'whole-body', { spreadKey: 'neckRadius' }),
   study('neck.area', 'Neck section area', 'm²', 'whole-body'),
   study('neck.overlapVolume', 'Overlap volume', 'm³', 'whole-body'),

@@ -1,5 +1,5 @@
 import { z } from 'zod'
-import { RECORD_SUBJECTS, quantityDef } from './quantities'
+import { RECORD_SUBJECTS, STUDY_ONLY_SUBJECTS, quantityDef } from './quantities'
 
 /** One schema per form, used by the record pages and the handlers. */
 
@@ -69,6 +69,11 @@ export const objectListQuerySchema = z.object({
   order: z.enum(['asc', 'desc']).default('asc'),
   limit: z.coerce.number().int().min(1).max(200).default(25),
   offset: z.coerce.number().int().min(0).default(0),
+  /**
+   * `review`: only records with values awaiting review that the caller did not propose, with
+   * `awaitingCount`. `mine`: only records where the caller proposed values, with `mine` counts by state.
+   */
+  awaiting: z.enum(['review', 'mine']).optional(),
 })
 export type ObjectListQuery = z.infer<typeof objectListQuerySchema>
 
@@ -80,7 +85,7 @@ const quantityKeys = z.array(z.string().refine(k => !!quantityDef(k), { message:
 export const attachSchema = z.union([
   z.object({
     lobe: z.number().int().positive(),
-    subject: z.enum(RECORD_SUBJECTS).exclude(['merged-body']).default('whole-body'),
+    subject: z.enum(RECORD_SUBJECTS).exclude([...STUDY_ONLY_SUBJECTS]).default('whole-body'),
     quantities: quantityKeys,
     note: z.string().trim().max(2000).default(''),
   }).strict(),

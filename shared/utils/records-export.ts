@@ -39,27 +39,91 @@ export function recordValueText(value: number | number[]): string {
   return Array.isArray(value) ? `[${value.map(recordNumberText).join(', ')}]` : recordNumberText(value)
 }
 
-/**
- * "± sd", "[min, max]" or the numeric fields of a spread, with what it means. A study spread has its
- * own centre (its samples' mean and median), which need not be the nominal value it is shown beside:
- * when the spread states them they are written out, so "± σ" is never read as centred on the nominal.
- */
-export function recordSpreadText(spread: Record<string, number | string> | null | undefined): string {
-  if (!spread) return ''
-  const n = (k: string) => (typeof spread[k] === 'number' ? spread[k] as number : undefined)
-  const basis = spread.basis === 'surface-range' ? 'range over the surface' : 'study spread'
-  const sd = n('sd') ?? n('std')
-  const mean = n('mean')
-  const median = n('median')
-  if (sd !== undefined && mean !== undefined) {
-    return `(${basis}: mean ${recordNumberText(mean)} ± ${recordNumberText(sd)} 1σ${median !== undefined ? `, median ${recordNumberText(median)}` : ''})`
+type SpreadLike = Record<string, number | string> | null | undefined
+
+/** A spread read into named parts; any part may be missing. */
+export interface RecordSpreadParts {
+  basis: 'surface-range' | 'study-spread' | string
+  median?: number
+  mean?: number
+  /** One standard deviation of the samples (the spread's own σ, not an error bar on the nominal value). */
+  sd?: number
+  min?: number
+  max?: number
+  n?: number
+}
+
+export function recordSpreadParts(spread: SpreadLike): RecordSpreadParts | null {
+  if (!spread) return null
+  const n = (...keys: string[]) => {
+    for (const k of keys) if (typeof spread[k] === 'number' && Number.isFinite(spread[k])) return spread[k] as number
+    return undefined
   }
-  if (sd !== undefined) return `± ${recordNumberText(sd)} (${basis}, 1σ)`
-  const lo = n('min') ?? n('low') ?? n('p05') ?? n('p16')
-  const hi = n('max') ?? n('high') ?? n('p95') ?? n('p84')
-  if (lo !== undefined && hi !== undefined) return `[${recordNumberText(lo)}, ${recordNumberText(hi)}] (${basis})`
-  const nums = Object.entries(spread).filter(([, v]) => typeof v === 'number') as [string, number][]
-  return nums.length ? `${nums.map(([k, v]) => `${k} ${recordNumberText(v)}`).join(', ')} (${basis})` : ''
+  return {
+    basis: typeof spread.basis === 'string' ? spread.basis : 'spread',
+    median: n('median'),
+    mean: n('mean'),
+    sd: n('sd', 'std'),
+    min: n('min', 'low', 'p05', 'p16'),
+    max: n('max', 'high', 'p95', 'p84'),
+    n: n('n'),
+  }
+}
+
+/**
+ * How far a study spread's centre (its median, else its mean) sits from the nominal value it is
+ * shown beside, or null when it is centred on it or cannot say (vectors, surface ranges).
+ *
+ * A spread samples its own inputs (a density range, a cone of directions), so its centre need not be
+ * the nominal run's value. "Centred" allows for sampling noise: the offset must exceed twice the
+ * large-sample standard error of a median, sqrt(π/2)·σ/√n (normal parent; Kendall & Stuart, The
+ * Advanced Theory of Statistics, vol. 1, §10.10 [mem]), and at least 0.1 σ (common practice, no source).
+ */
+export function recordSpreadOffset(value: number | number[], spread: SpreadLike): { centre: number, by: number, sigmas: number | null } | null {
+  const p = recordSpreadParts(spread)
+  if (!p || p.basis !== 'study-spread' || Array.isArray(value) || !Number.isFinite(value)) return null
+  const centre = p.median ?? p.mean
+  if (centre === undefined) return null
+  const by = centre - value
+  if (p.sd !== undefined && p.sd > 0) {
+    const noise = p.n !== undefined && p.n > 0 ? 2 * Math.sqrt(Math.PI / 2) * p.sd / Math.sqrt(p.n) : 0
+    return Math.abs(by) > Math.max(0.1 * p.sd, noise) ? { centre, by, sigmas: by / p.sd } : null
+  }
+  return Math.abs(by) > 1e-9 * Math.max(Math.abs(centre), Math.abs(value)) ? { centre, by, sigmas: null } : null
+}
+
+/**
+ * The spread in words, with what it is: a study spread names its own centre (median, mean), σ, range
+ * and sample count, so "± σ" is never read as an error bar centred on the nominal value; a surface
+ * range is a range over the surface. `fmt` writes numbers (default: exact float64 text).
+ */
+export function recordSpreadText(spread: SpreadLike, fmt: (v: number) => string = recordNumberText): string {
+  const p = recordSpreadParts(spread)
+  if (!p) return ''
+  if (p.basis === 'surface-range') {
+    return p.min !== undefined && p.max !== undefined ? `[${fmt(p.min)}, ${fmt(p.max)}] (range over the surface)` : ''
+  }
+  const parts: string[] = []
+  if (p.median !== undefined) parts.push(`median ${fmt(p.median)}`)
+  if (p.mean !== undefined) parts.push(`mean ${fmt(p.mean)}`)
+  if (p.sd !== undefined) parts.push(`σ ${fmt(p.sd)}`)
+  if (p.min !== undefined && p.max !== undefined) parts.push(`range [${fmt(p.min)}, ${fmt(p.max)}]`)
+  if (p.n !== undefined) parts.push(`n ${fmt(p.n)}`)
+  if (!parts.length) return ''
+  return `(${p.basis === 'study-spread' ? 'study spread over sampled inputs' : p.basis}: ${parts.join(', ')})`
+}
+
+/**
+ * A plain note when a study spread is not centred on the nominal value, else ''.
+ * @param unit printed after the offset ('' or '1' for none)
+ */
+export function recordSpreadNote(value: number | number[], spread: SpreadLike, unit = '', fmt: (v: number) => string = recordNumberText): string {
+  const off = recordSpreadOffset(value, spread)
+  if (!off) return ''
+  const u = unit && unit !== '1' ? ` ${unit}` : ''
+  const sig = off.sigmas === null ? '' : `, ${Math.abs(off.sigmas).toFixed(2)}σ`
+  return `The spread is not centred on the nominal value: its centre ${fmt(off.centre)}${u} lies ${fmt(Math.abs(off.by))}${u} ${off.by > 0 ? 'above' : 'below'} it${sig}. `
+    + 'The spread sampled different inputs (e.g. a density range) from the nominal run; quote its centre with its σ, not the nominal value.'
 }
 
 /** RFC 4180 cell: quoted when it holds a comma, quote or line break. */
@@ -89,52 +153,108 @@ export function recordDensities(p: Record<string, unknown>): number[] {
   return blocks.map(b => b.densityKgM3).filter((d): d is number => typeof d === 'number')
 }
 
+const num = (v: unknown): number | undefined => (typeof v === 'number' && Number.isFinite(v) ? v : undefined)
+const obj = (v: unknown): Record<string, unknown> | undefined => (v && typeof v === 'object' && !Array.isArray(v) ? v as Record<string, unknown> : undefined)
+
+/**
+ * The densities (kg m⁻³) a value was computed with: one for a lobe value; lobe A's and lobe B's for a
+ * study value (the study's own densities when it set them, else the lobes' stated ones).
+ */
+export function recordValueDensities(p: Record<string, unknown>): { single?: number, a?: number, b?: number } {
+  const input = obj(obj(p.study)?.input)
+  if (p.source === 'study' || p.lobeA || p.lobeB) {
+    return { a: num(input?.densityA) ?? num(obj(p.lobeA)?.densityKgM3), b: num(input?.densityB) ?? num(obj(p.lobeB)?.densityKgM3) }
+  }
+  return { single: num(obj(p.lobe)?.densityKgM3) }
+}
+
+/** Spin period (s) of the lobe behind a lobe value, or null when the lobe was not rotating / a study value. */
+export function recordLobeSpinPeriodS(p: Record<string, unknown>): number | null {
+  const h = num(obj(p.lobe)?.spinPeriodHours)
+  return h !== undefined && h > 0 ? h * 3600 : null
+}
+
+/**
+ * The inputs needed to recompute a value, as one JSON object: for a study value the study inputs as
+ * run (orbit kind and parameters, orientation quaternion of B, approach direction, settling depth,
+ * mass model, densities, spins, spread seed and priors); for a lobe value its density, reference
+ * radius and spin. SI units (m, m s⁻¹, kg m⁻³, rad s⁻¹, s) as in the study form.
+ */
+export function recordInputs(p: Record<string, unknown>): Record<string, unknown> {
+  const study = obj(p.study)
+  if (study) return { source: 'study', studyId: study.id ?? null, ...(obj(study.input) ?? {}) }
+  const lobe = obj(p.lobe) ?? {}
+  const spin = recordLobeSpinPeriodS(p)
+  return { source: 'lobe', lobeId: lobe.id ?? null, densityKgM3: lobe.densityKgM3 ?? null, referenceRadiusM: lobe.referenceRadiusM ?? null, spinPeriodS: spin, spin: spin === null ? 'not rotating' : 'rotating' }
+}
+
+/**
+ * CSV columns. The first 22 are the original layout (outside tools rely on those names); later ones
+ * were added: the spread's own centre, σ, range, count and seed/priors, a note when it is not centred
+ * on the value, the two densities of a study value, the lobe spin and the inputs as JSON.
+ * `spread_low`/`spread_high` equal `spread_min`/`spread_max`; `density_kg_m3` holds a lobe value's
+ * single density and is empty for study values (see density_a_kg_m3 / density_b_kg_m3).
+ */
 export const RECORD_CSV_COLUMNS = [
   'designation', 'attachment_id', 'quantity', 'label', 'component', 'subject', 'value', 'unit',
   'spread_basis', 'spread_low', 'spread_high', 'spread_sd', 'reference_radius_m', 'source', 'source_id',
   'mesh_sha256', 'density_kg_m3', 'algorithm_version', 'proposed_by', 'proposed_at', 'accepted_by', 'accepted_at',
+  'subject_label', 'spread_median', 'spread_mean', 'spread_min', 'spread_max', 'spread_n', 'spread_seed', 'spread_priors',
+  'spread_centre_note', 'density_a_kg_m3', 'density_b_kg_m3', 'spin_period_s', 'inputs_json',
 ] as const
+
+type CsvRow = Record<(typeof RECORD_CSV_COLUMNS)[number], string | number | null | undefined>
 
 /**
  * CSV of the current (accepted) values: one row per scalar, one row per component of a vector.
- * UTF-8, CRLF line ends, header row first.
+ * UTF-8, CRLF line ends, header row first. Numbers at full float64 precision.
  */
 export function recordCsv(rec: RecordExport): string {
   const lines = [RECORD_CSV_COLUMNS.join(',')]
   for (const v of rec.currentValues) {
     const s = v.spread
-    const num = (k: string) => (s && typeof s[k] === 'number' ? s[k] as number : undefined)
-    const common = {
-      spread_basis: s ? str(s.basis) : '',
-      spread_low: num('min') ?? num('low') ?? num('p05') ?? num('p16'),
-      spread_high: num('max') ?? num('high') ?? num('p95') ?? num('p84'),
-      spread_sd: num('sd') ?? num('std'),
+    const parts = Array.isArray(v.value) ? null : recordSpreadParts(s)
+    const d = recordValueDensities(v.provenance)
+    const common: Omit<CsvRow, 'component' | 'value'> = {
+      designation: rec.object.designation,
+      attachment_id: v.id,
+      quantity: v.quantityKey,
+      label: v.label,
+      subject: v.subject,
+      unit: v.unit,
+      spread_basis: parts ? str(s?.basis) : '',
+      spread_low: parts?.min,
+      spread_high: parts?.max,
+      spread_sd: parts?.sd,
+      reference_radius_m: v.referenceRadius,
+      source: v.source.type,
+      source_id: v.source.id,
+      mesh_sha256: recordMeshHashes(v.provenance).join(' '),
+      density_kg_m3: d.single,
+      algorithm_version: str(v.provenance.algorithmVersion),
+      proposed_by: v.proposedBy?.name,
+      proposed_at: iso(v.proposedAt),
+      accepted_by: v.reviewedBy?.name,
+      accepted_at: iso(v.reviewedAt),
+      subject_label: v.subjectLabel,
+      spread_median: parts?.median,
+      spread_mean: parts?.mean,
+      spread_min: parts?.min,
+      spread_max: parts?.max,
+      spread_n: parts?.n,
+      spread_seed: parts && typeof s?.seed === 'number' ? s.seed : undefined,
+      spread_priors: parts && typeof s?.priors === 'string' ? s.priors : undefined,
+      spread_centre_note: parts ? recordSpreadNote(v.value, s, v.unit) : '',
+      density_a_kg_m3: d.a,
+      density_b_kg_m3: d.b,
+      spin_period_s: recordLobeSpinPeriodS(v.provenance),
+      inputs_json: JSON.stringify(recordInputs(v.provenance)),
     }
     const values: [string, number][] = Array.isArray(v.value)
       ? v.value.map((x, i) => [v.components?.[i] ?? String(i), x])
       : [['', v.value]]
     for (const [component, x] of values) {
-      const row: Record<(typeof RECORD_CSV_COLUMNS)[number], string | number | null | undefined> = {
-        designation: rec.object.designation,
-        attachment_id: v.id,
-        quantity: v.quantityKey,
-        label: v.label,
-        component,
-        subject: v.subject,
-        value: x,
-        unit: v.unit,
-        ...(Array.isArray(v.value) ? { spread_basis: '', spread_low: undefined, spread_high: undefined, spread_sd: undefined } : common),
-        reference_radius_m: v.referenceRadius,
-        source: v.source.type,
-        source_id: v.source.id,
-        mesh_sha256: recordMeshHashes(v.provenance).join(' '),
-        density_kg_m3: recordDensities(v.provenance).map(recordNumberText).join(' '),
-        algorithm_version: str(v.provenance.algorithmVersion),
-        proposed_by: v.proposedBy?.name,
-        proposed_at: iso(v.proposedAt),
-        accepted_by: v.reviewedBy?.name,
-        accepted_at: iso(v.reviewedAt),
-      }
+      const row: CsvRow = { ...common, component, value: x }
       lines.push(RECORD_CSV_COLUMNS.map(c => recordCsvCell(row[c])).join(','))
     }
   }
@@ -155,14 +275,47 @@ export function recordCitation(rec: RecordExport, opts: { link: string, exported
     const spread = recordSpreadText(v.spread)
     const r = v.referenceRadius === null ? '' : `, reference radius ${recordNumberText(v.referenceRadius)} m`
     out.push(`- ${v.label} (${v.quantityKey}, ${v.subjectLabel}) = ${recordValueText(v.value)} ${v.unit}${spread ? ` ${spread}` : ''}${r}`)
-    const meshes = [p.lobe, p.lobeA, p.lobeB].filter(b => b && typeof b === 'object') as Record<string, unknown>[]
-    for (const m of meshes) {
-      out.push(`    mesh ${str(m.sourceFileName)} sha256 ${str(m.sha256)}, density ${typeof m.densityKgM3 === 'number' ? recordNumberText(m.densityKgM3) : '?'} kg m⁻³`)
+    const note = recordSpreadNote(v.value, v.spread, v.unit)
+    if (note) out.push(`    NOTE: ${note}`)
+    const d = recordValueDensities(p)
+    const meshes = ([['', p.lobe, d.single], ['lobe A ', p.lobeA, d.a], ['lobe B ', p.lobeB, d.b]] as const)
+      .filter(([, b]) => b && typeof b === 'object') as unknown as [string, Record<string, unknown>, number | undefined][]
+    for (const [which, m, density] of meshes) {
+      out.push(`    ${which}mesh ${str(m.sourceFileName)} sha256 ${str(m.sha256)}, density ${density !== undefined ? recordNumberText(density) : '?'} kg m⁻³`)
     }
     const study = p.study as Record<string, unknown> | undefined
     if (study) out.push(`    study #${str(study.id)}${study.title ? ` "${str(study.title)}"` : ''}, inputs ${JSON.stringify(study.input)}`)
+    else if (p.lobe) {
+      const spin = recordLobeSpinPeriodS(p)
+      out.push(`    lobe spin: ${spin === null ? 'not rotating' : `period ${recordNumberText(spin)} s (${recordNumberText(spin / 3600)} h)`}`)
+    }
     out.push(`    ${str(p.algorithmVersion)}; attachment #${v.id}, proposed by ${v.proposedBy?.name ?? '?'} ${iso(v.proposedAt)}, accepted by ${v.reviewedBy?.name ?? '?'} ${iso(v.reviewedAt)}`)
   }
   out.push('', 'Cautions:', ...rec.cautions.map(c => `- ${c}`))
   return out.join('\n') + '\n'
+}
+
+const SECONDS_PER_HOUR = 3600
+/** Spread fields that are counts or seeds, never rescaled with the unit. */
+const UNSCALED_SPREAD_FIELDS = new Set(['n', 'samples', 'seed', 'contacts'])
+
+export interface RecordDisplayValue {
+  value: number | number[]
+  spread: Record<string, number | string> | null
+  unit: string
+  exact: string
+}
+/**
+ * A value as the record pages show it: periods stored in seconds are shown in hours (the spread
+ * rescaled with them), everything else as stored. `exact` is the stored value in its stored unit
+ * at full precision, for a tooltip. Exports never use this (they stay SI).
+ */
+export function recordDisplay(value: number | number[], spread: Record<string, number | string> | null, unit: string): RecordDisplayValue {
+  const exact = recordValueText(value)
+  if (unit !== 's') return { value, spread, unit, exact }
+  const h = (x: number) => x / SECONDS_PER_HOUR
+  const scaled = spread
+    ? Object.fromEntries(Object.entries(spread).map(([k, v]) => [k, typeof v === 'number' && !UNSCALED_SPREAD_FIELDS.has(k) ? h(v) : v]))
+    : null
+  return { value: Array.isArray(value) ? value.map(h) : h(value), spread: scaled, unit: 'h', exact: `${exact} s` }
 }

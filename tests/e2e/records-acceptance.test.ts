@@ -106,7 +106,7 @@ describe('records acceptance: upload → study → attach → mail → review �
     const byKey = Object.fromEntries(attached.json.items.map((a: any) => [a.quantityKey, a]))
     const speedAtt = byKey['contact.speed']
     const j2Att = byKey['merged.J2']
-    expect(speedAtt).toMatchObject({ value: speed1, unit: 'm s⁻¹', subject: 'whole-body', state: 'proposed' })
+    expect(speedAtt).toMatchObject({ value: speed1, unit: 'm s⁻¹', subject: 'lobe-pair', state: 'proposed' })
     expect(j2Att).toMatchObject({ value: j2, unit: '1', subject: 'merged-body', referenceRadius: study1.result.merged.referenceRadius, state: 'proposed' })
 
     // 5. The reviewer's notice, received by the embedded SMTP server and read from the mail drop.

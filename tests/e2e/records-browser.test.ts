@@ -95,4 +95,75 @@ describe('in a real browser: create a record, attach from a lobe, review, read t
     await expect.poll(() => page.getByTestId('records-table').locator('tbody tr td').first().innerText()).toBe(desc)
     await page.close()
   })
+
+  it('counts comments in words, and the attach dialog proposes once on a double click, then clears and says what it did', async () => {
+    const rec = (await as.analyst.get('/api/objects?q=2052%20BW7')).json.items[0]
+    const page = await signIn('analyst@example.org', `/objects/${rec.id}`)
+    const data = (await as.analyst.get(`/api/objects/${rec.id}`)).json
+    const decided = data.attachments.find((a: any) => (data.comments[a.id] ?? []).length === 1)
+    const card = page.locator(`[data-attachment-card="${decided.id}"]`)
+    await expect.poll(() => card.innerText()).toMatch(/\b1 comment\b/)
+    expect(await card.innerText()).not.toContain('1 comments')
+
+    const lobe = (await uploadLobe(as.analyst, writeObj(boxMesh(0.8, 0.6, 0.5)), 'pebble.obj', { density: '1800', units: 'km' })).json
+    await page.goto(`${server.url}/lobes/${lobe.id}`)
+    await page.getByTestId('attach-open').click()
+    const dialog = page.getByRole('dialog')
+    await expect.poll(() => dialog.locator('select[name="record"] option').allInnerTexts()).toContain('2052 BW7 — Browser pair')
+    await dialog.locator('select[name="record"]').selectOption({ label: '2052 BW7 — Browser pair' })
+    await dialog.getByLabel('Surface area').check()
+    const before = (await as.analyst.get(`/api/objects/${rec.id}`)).json.attachments.length
+    await dialog.getByRole('button', { name: /Propose 1 value/ }).dblclick()
+    await expect.poll(() => dialog.getByTestId('attach-done').innerText()).toMatch(/Proposed 1 value for 2052 BW7[\s\S]*Surface area \(whole body\)/)
+    expect(await dialog.getByLabel('Surface area').isChecked()).toBe(false)
+    expect(await dialog.getByRole('button', { name: /Propose/ }).isDisabled()).toBe(true)
+    const after = (await as.analyst.get(`/api/objects/${rec.id}`)).json.attachments
+    expect(after.length).toBe(before + 1)
+    expect(after.filter((a: any) => a.quantityKey === 'surfaceArea' && a.source.id === lobe.id).length).toBe(1)
+
+    // The analyst's overview lists the record with the proposal's state.
+    await page.goto(`${server.url}/`)
+    await expect.poll(() => page.getByTestId('my-proposals').locator(`tr[data-record="${rec.id}"]`).innerText()).toMatch(/2052 BW7/)
+    await page.close()
+  })
+
+  it('shows a spread with its own centre and a note when it is off the value, and periods in hours with the seconds on hover', async () => {
+    const rec = (await as.analyst.get('/api/objects?q=2052%20BW7')).json.items[0]
+    const lobes = (await as.analyst.get('/api/lobes?limit=2')).json.items
+    // A finished study row inserted directly (invented numbers, not physics): the escape-speed spread
+    // was drawn over inputs the nominal run did not use, so it is centred well above the value.
+    const result = {
+      contact: { speed: 3.2, escapeSpeed: 3.32688 },
+      merged: { spinPeriod: 42882.7 },
+      spread: { seed: 3, samples: 40, contacts: 40, priors: 'densities uniform 300–1200 kg m⁻³', escapeSpeed: { min: 3.07, median: 4.07259, max: 5.22, mean: 4.073, std: 0.517743, n: 40 }, speed: null, spinPeriod: null, neckRadius: null, mergedJ2: null },
+    }
+    const ins = await server.sql().execute({
+      sql: `insert into studies (owner_id, lobe_a_id, lobe_b_id, title, input, cache_key, status, progress, result, algorithm_version, finished_at)
+            values ((select id from users where email = 'analyst@example.org'), ?, ?, 'spread check', '{}', 'kb1', 'done', 1, ?, 'test', ?) returning id`,
+      args: [lobes[0].id, lobes[1]?.id ?? lobes[0].id, JSON.stringify(result), Date.now()],
+    })
+    const attached = await as.analyst.post(`/api/objects/${rec.id}/attachments`, { study: Number(ins.rows[0]![0]), quantities: ['contact.escapeSpeed', 'merged.spinPeriod'] })
+    expect(attached.status, attached.text).toBe(201)
+    const page = await signIn('analyst@example.org', `/objects/${rec.id}`)
+    const [esc, spin] = attached.json.items.map((a: any) => page.locator(`[data-proposed="${a.id}"]`))
+    await expect.poll(() => esc!.innerText()).toContain('lobe pair (approach) = 3.32688 m s⁻¹ (study spread over sampled inputs: median 4.07259, mean 4.073, σ 0.517743, range [3.07, 5.22], n 40)')
+    expect(await esc!.getByTestId('spread-note').innerText()).toMatch(/not centred on the nominal value: its centre 4\.07259 m s⁻¹ lies 0\.74571 m s⁻¹ above it, 1\.44σ/)
+    // 42882.7 s = 11.9119 h (÷ 3600); the exact stored seconds stay in the title.
+    expect(await spin!.getByTestId('value-text').innerText()).toBe('11.9119 h')
+    expect(await spin!.getByTestId('value-text').getAttribute('title')).toBe('42882.7 s')
+    await page.close()
+  })
+
+  it('gives reviewers an "awaiting your review" list on the overview, linking to each record', async () => {
+    const rec = (await as.analyst.get('/api/objects?q=2052%20BW7')).json.items[0]
+    const page = await signIn('reviewer@example.org', '/')
+    const queue = page.getByTestId('review-queue')
+    const row = queue.locator(`tr[data-record="${rec.id}"]`)
+    const waiting = (await as.reviewer.get(`/api/objects/${rec.id}`)).json.attachments.filter((a: any) => a.state === 'proposed').length
+    await expect.poll(() => row.innerText()).toContain(`${waiting} value${waiting === 1 ? '' : 's'}`)
+    await row.getByRole('link', { name: '2052 BW7' }).click()
+    await page.waitForURL(new RegExp(`/objects/${rec.id}$`))
+    await expect.poll(() => page.locator('main').innerText()).toContain(`Awaiting review (${waiting})`)
+    await page.close()
+  })
 })

@@ -41,14 +41,14 @@ describe('upload → study → attach → review → export, through the public 
 
     const exported = (await as.viewer.get(`/api/objects/${record}/export.json`)).json
     const v = (key: string, subject: string) => exported.currentValues.find((c: any) => c.quantityKey === key && c.subject === subject)
-    expect(v('contact.speed', 'whole-body').value).toBe(study.result.contact.speed)
+    expect(v('contact.speed', 'lobe-pair').value).toBe(study.result.contact.speed)
     expect(v('mass', 'lobe-a').value).toBe(a.properties.mass)
-    expect(v('contact.speed', 'whole-body').provenance).toMatchObject({ study: { id: study.id }, lobeA: { sha256: a.sha256, sourceFileName: 'big.ply', densityKgM3: 1000 }, lobeB: { sha256: b.sha256 } })
+    expect(v('contact.speed', 'lobe-pair').provenance).toMatchObject({ study: { id: study.id }, lobeA: { sha256: a.sha256, sourceFileName: 'big.ply', densityKgM3: 1000 }, lobeB: { sha256: b.sha256 } })
     // Head-on parabolic approach: contact speed = √(2G(mA + mB)/d) at touching distance d (vis-viva,
     // SCIENCE.md §5); with the attached masses and equivalent radii, d ≈ rA + rB for the near-spheres.
     const d = v('equivalentRadius', 'lobe-a').value + v('equivalentRadius', 'lobe-b').value
     const visViva = Math.sqrt(2 * G * (v('mass', 'lobe-a').value + v('mass', 'lobe-b').value) / d)
-    expect(v('contact.speed', 'whole-body').value / visViva).toBeCloseTo(1, 1)
+    expect(v('contact.speed', 'lobe-pair').value / visViva).toBeCloseTo(1, 1)
     const csv = (await as.viewer.get(`/api/objects/${record}/export.csv`)).text
     expect(csv).toContain(`,contact.speed,`)
     expect(csv).toContain(`,${String(study.result.contact.speed)},m s⁻¹,`)

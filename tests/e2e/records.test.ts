@@ -15,8 +15,16 @@ const STUDY_RESULT = {
     seed: 7, samples: 64, contacts: 60, priors: 'density uniform 400–900 kg m⁻³',
     speed: { min: 0.25, median: 0.3, max: 0.35000000000000003, mean: 0.3, std: 0.02, n: 60 },
     mergedJ2: { min: 0.1, median: 0.12, max: 0.14, mean: 0.12, std: 0.01, n: 60 },
-    escapeSpeed: null, spinPeriod: null, neckRadius: null,
+    // Drawn over a density range the nominal run did not use: centred well above the nominal 0.7071… m s⁻¹.
+    escapeSpeed: { min: 0.6, median: 0.9, max: 1.2, mean: 0.91, std: 0.1, n: 60 },
+    spinPeriod: null, neckRadius: null,
   },
+}
+/** The stored inputs of that study (the shape `POST /api/studies` stores, densities resolved). */
+const STUDY_INPUT = {
+  title: 'slow approach', densityA: 1500, densityB: 1400, massModel: 'conserve-mass', orientationB: [0.5, 0.5, 0.5, 0.5], direction: [1, 0, 0],
+  orbit: { kind: 'hyperbolic', vInfinity: 0.1, pericentre: 0 }, spinA: 'synchronous', spinB: 'none', overlapDepth: 250, sweepSteps: 0,
+  spread: { seed: 7, samples: 64, densityA: { kind: 'uniform', min: 400, max: 900 }, densityB: { kind: 'fixed', value: 1400 }, coneHalfAngleDeg: 10, scale: { kind: 'fixed', value: 1 }, neck: true },
 }
 
 /** Minimal CSV reader for RFC 4180 text (quoted cells, doubled quotes). */
@@ -89,7 +97,7 @@ describe('object records: attach, review, supersede, export, mail', () => {
     const ins = await server.sql().execute({
       sql: `insert into studies (owner_id, lobe_a_id, lobe_b_id, title, input, cache_key, status, progress, result, algorithm_version, finished_at)
             values (?, ?, ?, ?, ?, ?, 'done', 1, ?, 'isthmus-geometry test', ?) returning id`,
-      args: [ids.analyst, lobeDense.id, lobeOther.id, 'slow approach', JSON.stringify({ approach: { speedAtInfinity: 0.1 } }), 'k1', JSON.stringify(STUDY_RESULT), Date.now()],
+      args: [ids.analyst, lobeDense.id, lobeOther.id, 'slow approach', JSON.stringify({ ...STUDY_INPUT, lobeA: lobeDense.id, lobeB: lobeOther.id }), 'k1', JSON.stringify(STUDY_RESULT), Date.now()],
     })
     studyId = Number(ins.rows[0]![0])
   })
@@ -202,6 +210,63 @@ describe('object records: attach, review, supersede, export, mail', () => {
     expect((await as.analyst.post(`/api/objects/99999999/attachments`, { lobe: lobeDense.id, quantities: ['mass'] })).status).toBe(404)
   })
 
+  it('refuses (409) a value identical to one still awaiting review, even from two requests at once, and stores nothing', async () => {
+    const body = { lobe: lobeDense.id, subject: 'lobe-b', quantities: ['surfaceArea'] }
+    const before = await count('select count(*) from attachments where object_id = ?', [recordId])
+    // A double click: two identical requests in flight together; the write transactions run one after the other.
+    const [a, b] = await Promise.all([as.analyst.post(`/api/objects/${recordId}/attachments`, body), as.analyst.post(`/api/objects/${recordId}/attachments`, body)])
+    expect([a.status, b.status].sort(), `${a.text} / ${b.text}`).toEqual([201, 409])
+    const first = a.status === 201 ? a : b
+    const again = await as.analyst.post(`/api/objects/${recordId}/attachments`, { ...body, quantities: ['surfaceArea', 'volume'] })
+    expect(again.status).toBe(409)
+    expect(again.json.message).toContain(`#${first.json.items[0].id} Surface area (lobe B)`)
+    expect(again.json.data).toMatchObject({ code: 'duplicate-proposal', attachments: [first.json.items[0].id] })
+    expect(await count('select count(*) from attachments where object_id = ?', [recordId])).toBe(before + 1)
+    // Another subject, or the same value once decided, is a new proposal.
+    expect((await as.analyst.post(`/api/objects/${recordId}/attachments`, { ...body, subject: 'lobe-a' })).status).toBe(201)
+    expect((await as.reviewer.post(`/api/attachments/${first.json.items[0].id}/review`, { decision: 'reject', comment: 'Wrong lobe.' })).status).toBe(200)
+    const after = await as.analyst.post(`/api/objects/${recordId}/attachments`, body)
+    expect(after.status, after.text).toBe(201)
+    expect((await as.reviewer.post(`/api/attachments/${after.json.items[0].id}/review`, { decision: 'reject', comment: 'Still the wrong lobe.' })).status).toBe(200)
+  })
+
+  it('lists the records awaiting a reviewer\'s review and an analyst\'s own proposals by state', async () => {
+    const rec = (await as.viewer.get(`/api/objects/${recordId}`)).json
+    const proposed = rec.attachments.filter((a: any) => a.state === 'proposed')
+    expect(proposed.length).toBeGreaterThan(0)
+    const queue = await as.reviewer.get('/api/objects?awaiting=review&limit=200')
+    expect(queue.status).toBe(200)
+    const row = queue.json.items.find((r: any) => r.id === recordId)
+    expect(row).toMatchObject({ awaitingCount: proposed.length, designation: '2047 RZ3' })
+    expect(Date.parse(row.oldestAwaitingAt)).toBe(Math.min(...proposed.map((a: any) => Date.parse(a.proposedAt))))
+    // Only records with something awaiting review are listed.
+    for (const r of queue.json.items) expect(r.awaitingCount, r.designation).toBeGreaterThan(0)
+    expect(queue.json.items.some((r: any) => r.designation === '2050 LT00')).toBe(false)
+    // The analyst proposed them: not awaiting the analyst's own review, but listed under their proposals.
+    expect((await as.analyst.get('/api/objects?awaiting=review&limit=200')).json.items.some((r: any) => r.id === recordId)).toBe(false)
+    const mine = (await as.analyst.get('/api/objects?awaiting=mine&limit=200')).json.items.find((r: any) => r.id === recordId)
+    const byState = (st: string) => rec.attachments.filter((a: any) => a.state === st && a.proposedBy?.id === ids.analyst).length
+    expect(mine.mine).toEqual({ proposed: byState('proposed'), accepted: byState('accepted'), rejected: byState('rejected'), superseded: byState('superseded') })
+    expect(mine.mine.rejected).toBeGreaterThan(0)
+    expect((await as.viewer.get('/api/objects?awaiting=everything')).status).toBe(422)
+  })
+
+  it('lobe exports state the spin period the surface fields used, or that the lobe is not rotating', async () => {
+    const spun = await uploadLobe(as.analyst, writeObj(boxMesh(1, 1, 1)), 'spun.obj', { density: '1000', units: 'km', spinPeriodHours: '4' })
+    expect(spun.status, spun.text).toBe(201)
+    for (const [lobe, seconds] of [[spun.json, 14400], [lobeDense, null]] as const) {
+      const csv = parseCsv((await as.viewer.get(`/api/lobes/${lobe.id}/export.csv`)).text)
+      const col = (n: string) => csv[0]!.indexOf(n)
+      for (const r of csv.slice(1)) {
+        expect(r[col('spin_period_s')]).toBe(seconds === null ? '' : String(seconds))
+        expect(r[col('spin')]).toBe(seconds === null ? 'not rotating' : 'rotating')
+      }
+      const json = (await as.viewer.get(`/api/lobes/${lobe.id}/export.json`)).json
+      expect(json.provenance.spinPeriodS).toBe(seconds)
+      expect(json.provenance.spin).toMatch(seconds === null ? /^not rotating$/ : /^rotating, period 14400 s \(4 h\)$/)
+    }
+  })
+
   it('accepts and rejects with a comment, mails the analyst, and answers 409 to a second decision', async () => {
     const rec = (await as.viewer.get(`/api/objects/${recordId}`)).json
     const pick = (k: string) => rec.attachments.find((a: any) => a.quantityKey === k && a.state === 'proposed')
@@ -274,8 +339,10 @@ describe('object records: attach, review, supersede, export, mail', () => {
       expect(await count(`select count(*) from audit_events where action in ('record.value-accepted', 'record.value-rejected') and subject_id = ?`, [String(id)])).toBe(1)
     }
     // Two proposals of the same group accepted at once: both succeed, exactly one stays current.
+    // (From two lobes: the same value from the same lobe twice would be refused while awaiting review.)
     const res = await as.analyst.post(`/api/objects/${recordId}/attachments`, { lobe: lobeOther.id, subject: 'whole-body', quantities: ['surfaceArea'] })
-    const res2 = await as.analyst.post(`/api/objects/${recordId}/attachments`, { lobe: lobeOther.id, subject: 'whole-body', quantities: ['surfaceArea'] })
+    const res2 = await as.analyst.post(`/api/objects/${recordId}/attachments`, { lobe: lobeDense.id, subject: 'whole-body', quantities: ['surfaceArea'] })
+    expect([res.status, res2.status], `${res.text} ${res2.text}`).toEqual([201, 201])
     const [x, y] = await Promise.all([
       as.reviewer.post(`/api/attachments/${res.json.items[0].id}/review`, { decision: 'accept' }),
       reviewer2.post(`/api/attachments/${res2.json.items[0].id}/review`, { decision: 'accept' }),
@@ -286,13 +353,17 @@ describe('object records: attach, review, supersede, export, mail', () => {
   })
 
   it('attaches study values with spread, and exports JSON = record page data, CSV at full precision, citation text', async () => {
-    const res = await as.analyst.post(`/api/objects/${recordId}/attachments`, { study: studyId, quantities: ['contact.speed', 'merged.J2', 'merged.spinPeriod'] })
+    const res = await as.analyst.post(`/api/objects/${recordId}/attachments`, { study: studyId, quantities: ['contact.speed', 'contact.escapeSpeed', 'merged.J2', 'merged.spinPeriod'] })
     expect(res.status, res.text).toBe(201)
     const byKey = Object.fromEntries(res.json.items.map((a: any) => [a.quantityKey, a]))
-    expect(byKey['contact.speed']).toMatchObject({ value: 0.1 + 0.2, subject: 'whole-body', spread: { basis: 'study-spread', min: 0.25, max: 0.35000000000000003, std: 0.02, n: 60, samples: 64, seed: 7, priors: 'density uniform 400–900 kg m⁻³' } })
+    // Contact kinematics describe the approaching pair, not the joined body.
+    expect(byKey['contact.escapeSpeed']).toMatchObject({ subject: 'lobe-pair', subjectLabel: 'lobe pair (approach)' })
+    expect(byKey['contact.escapeSpeed'].spreadNote).toContain('not centred on the nominal value')
+    expect(byKey['contact.speed'].spreadNote).toBe('')
+    expect(byKey['contact.speed']).toMatchObject({ value: 0.1 + 0.2, subject: 'lobe-pair', spread: { basis: 'study-spread', min: 0.25, max: 0.35000000000000003, std: 0.02, n: 60, samples: 64, seed: 7, priors: 'density uniform 400–900 kg m⁻³' } })
     expect(byKey['merged.J2']).toMatchObject({ value: STUDY_RESULT.merged.J2, subject: 'merged-body', referenceRadius: STUDY_RESULT.merged.referenceRadius, spread: { basis: 'study-spread', std: 0.01, n: 60 } })
     expect(byKey['merged.spinPeriod'].spread).toBeNull()
-    expect(byKey['contact.speed'].provenance).toMatchObject({ source: 'study', study: { id: studyId, input: { approach: { speedAtInfinity: 0.1 } } }, lobeA: { sha256: lobeDense.sha256, densityKgM3: 1500 }, lobeB: { sha256: lobeOther.sha256 } })
+    expect(byKey['contact.speed'].provenance).toMatchObject({ source: 'study', study: { id: studyId, input: { overlapDepth: 250, orientationB: [0.5, 0.5, 0.5, 0.5] } }, lobeA: { sha256: lobeDense.sha256, densityKgM3: 1500 }, lobeB: { sha256: lobeOther.sha256 } })
     for (const a of res.json.items) expect((await as.reviewer.post(`/api/attachments/${a.id}/review`, { decision: 'accept' })).status).toBe(200)
 
     const page = (await as.viewer.get(`/api/objects/${recordId}`)).json
@@ -313,6 +384,17 @@ describe('object records: attach, review, supersede, export, mail', () => {
     expect(Number(speed[col('value')])).toBe(0.1 + 0.2)
     expect(Number(speed[col('spread_high')])).toBe(0.35000000000000003)
     expect(Number(speed[col('spread_sd')])).toBe(0.02)
+    // The spread's own centre and σ, and a note when it is not centred on the value (sampled other inputs).
+    expect([Number(speed[col('spread_median')]), Number(speed[col('spread_mean')]), speed[col('spread_centre_note')]]).toEqual([0.3, 0.3, ''])
+    const esc = rows.find(r => r[col('quantity')] === 'contact.escapeSpeed')!
+    expect([Number(esc[col('spread_median')]), Number(esc[col('spread_mean')]), Number(esc[col('spread_sd')])]).toEqual([0.9, 0.91, 0.1])
+    expect(esc[col('spread_centre_note')]).toMatch(/not centred on the nominal value: its centre 0\.9 m s⁻¹ lies 0\.19\d* m s⁻¹ above it/)
+    expect(esc[col('subject')]).toBe('lobe-pair')
+    // Densities in their own columns (the study's own: 1500 and 1400), and the study inputs to rerun it.
+    expect([speed[col('density_a_kg_m3')], speed[col('density_b_kg_m3')], speed[col('density_kg_m3')]]).toEqual(['1500', '1400', ''])
+    expect(JSON.parse(speed[col('inputs_json')]!)).toEqual({ source: 'study', studyId, ...STUDY_INPUT, lobeA: lobeDense.id, lobeB: lobeOther.id })
+    const massRow = rows.find(r => r[col('quantity')] === 'mass')
+    if (massRow) expect(JSON.parse(massRow[col('inputs_json')]!)).toMatchObject({ source: 'lobe', spin: 'not rotating', spinPeriodS: null })
     const j2 = rows.find(r => r[col('quantity')] === 'merged.J2')!
     expect(Number(j2[col('value')])).toBe(STUDY_RESULT.merged.J2)
     expect(Number(j2[col('reference_radius_m')])).toBe(STUDY_RESULT.merged.referenceRadius)
@@ -337,7 +419,9 @@ describe('object records: attach, review, supersede, export, mail', () => {
     expect(txt.headers.get('content-type')).toMatch(/text\/plain/)
     expect(txt.text).toContain('2047 RZ3')
     // The spread is written with its own centre (mean, median), not as ± around the nominal value.
-    expect(txt.text).toContain('0.30000000000000004 m s⁻¹ (study spread: mean 0.3 ± 0.02 1σ, median 0.3)')
+    expect(txt.text).toContain('0.30000000000000004 m s⁻¹ (study spread over sampled inputs: median 0.3, mean 0.3, σ 0.02, range [0.25, 0.35000000000000003], n 60)')
+    expect(txt.text).toMatch(/Mutual escape speed at contact \(contact\.escapeSpeed, lobe pair \(approach\)\) = 0\.7071067811865476 m s⁻¹ \(study spread over sampled inputs: median 0\.9, mean 0\.91, σ 0\.1[^\n]*\n {4}NOTE: The spread is not centred on the nominal value/)
+    expect(txt.text).toContain('lobe A mesh slab-dense.obj')
     expect(txt.text).toContain(lobeDense.sha256)
     expect(txt.text).toMatch(/Cautions:\n- Every value is a model estimate/)
   })

@@ -1,6 +1,9 @@
+import { readdirSync, readFileSync } from 'node:fs'
+import { join } from 'node:path'
+import { createClient } from '@libsql/client'
 import { describe, expect, it } from 'vitest'
 import { boxMesh, massProperties } from '../../../shared/geometry'
-import { quantitiesFor, quantityDef, readQuantity, supersedeGroup, QuantityReadError, RECORD_QUANTITIES } from '../../../shared/types/quantities'
+import { quantitiesFor, quantityDef, readQuantity, supersedeGroup, QuantityReadError, PAIR_QUANTITY_KEYS, RECORD_QUANTITIES, RECORD_SUBJECT_LABELS } from '../../../shared/types/quantities'
 import { attachSchema, heliocentricOrbitSchema, objectCreateSchema } from '../../../shared/types/records'
 
 const read = (key: string, source: unknown) => readQuantity(quantityDef(key)!, source)
@@ -86,5 +89,44 @@ describe('record form schemas', () => {
     expect(attachSchema.safeParse({ lobe: 1, study: 2, quantities: ['mass'] }).success).toBe(false)
     expect(attachSchema.safeParse({ study: 2, quantities: ['nope'] }).success).toBe(false)
     expect(attachSchema.safeParse({ study: 2, quantities: ['merged.J2', 'merged.J2'] }).success).toBe(false)
+  })
+})
+
+describe('the lobe-pair subject', () => {
+  it('files every contact-kinematics value under the lobe pair, and neck/merged values under their bodies', () => {
+    for (const key of PAIR_QUANTITY_KEYS) expect(quantityDef(key)?.subject, key).toBe('lobe-pair')
+    expect(quantitiesFor('study').filter(q => q.key.startsWith('contact.')).map(q => q.key).sort()).toEqual([...PAIR_QUANTITY_KEYS].sort())
+    expect(quantityDef('neck.equivalentRadius')?.subject).toBe('whole-body')
+    expect(quantityDef('merged.spinPeriod')?.subject).toBe('merged-body')
+    expect(RECORD_SUBJECT_LABELS['lobe-pair']).toMatch(/lobe pair/)
+    // A single lobe never stands for the pair.
+    expect(attachSchema.safeParse({ lobe: 1, subject: 'lobe-pair', quantities: ['mass'] }).success).toBe(false)
+  })
+
+  it('migration 0005 moves stored pair values and their supersede groups together, leaving other values alone', async () => {
+    const db = createClient({ url: ':memory:' })
+    const dir = 'server/db/migrations'
+    const files = readdirSync(dir).filter(f => /^\d{4}_.*\.sql$/.test(f)).sort()
+    const run = async (f: string) => {
+      for (const stmt of readFileSync(join(dir, f), 'utf8').split('--> statement-breakpoint')) if (stmt.trim()) await db.executeMultiple(stmt)
+    }
+    for (const f of files.filter(f => f < '0005')) await run(f)
+    const insert = (id: number, key: string, subject: string, r: number | null, state: string) => db.execute({
+      sql: `insert into attachments (id, object_id, quantity_key, subject, value, unit, supersede_group, provenance, state, proposed_by) values (?, 1, ?, ?, '1', 'm', ?, '{}', ?, 1)`,
+      args: [id, key, subject, supersedeGroup(key, subject as never, r), state],
+    })
+    // Only the attachments table matters here; the record and member rows it points at are left out.
+    await db.execute('PRAGMA foreign_keys = OFF')
+    await insert(1, 'contact.speed', 'whole-body', null, 'superseded')
+    await insert(2, 'contact.speed', 'whole-body', null, 'accepted')
+    await insert(3, 'contact.massRatio', 'whole-body', null, 'proposed')
+    await insert(4, 'neck.area', 'whole-body', null, 'accepted')
+    await insert(5, 'merged.J2', 'merged-body', 1234.5, 'accepted')
+    await insert(6, 'mass', 'whole-body', null, 'accepted')
+    await run(files.find(f => f.startsWith('0005'))!)
+    const rows = (await db.execute('select id, quantity_key, subject, supersede_group from attachments order by id')).rows
+    // Each row's group must equal the one the code computes for its (new) subject, or superseding would split.
+    for (const r of rows) expect(r.supersede_group, String(r.id)).toBe(supersedeGroup(String(r.quantity_key), r.subject as never, r.quantity_key === 'merged.J2' ? 1234.5 : null))
+    expect(rows.map(r => r.subject)).toEqual(['lobe-pair', 'lobe-pair', 'lobe-pair', 'whole-body', 'merged-body', 'whole-body'])
   })
 })

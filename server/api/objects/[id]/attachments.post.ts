@@ -1,13 +1,16 @@
-import { eq, inArray } from 'drizzle-orm'
+import { and, eq, inArray, isNull } from 'drizzle-orm'
 import { idParamSchema } from '#shared/types/account'
 import { attachSchema } from '#shared/types/records'
-import { quantityDef, readQuantity, supersedeGroup, QuantityReadError, type RecordSubject } from '#shared/types/quantities'
+import { quantityDef, readQuantity, supersedeGroup, QuantityReadError, RECORD_SUBJECT_LABELS, type RecordSubject } from '#shared/types/quantities'
 
 /**
  * Attach derived values to a record (analyst): `{ lobe, subject?, quantities }` or
  * `{ study, quantities }`. Each value is frozen as a snapshot (value at full float64 precision,
  * unit, spread, subject, reference radius, provenance) in the state `proposed`. Followers who review
  * are mailed; a mail failure is logged and audited and never loses the attachments.
+ * A value identical to one still awaiting review on this record (same quantity, subject, source lobe
+ * or study, reference radius and value) answers 409 and nothing is stored: a repeated click or a
+ * re-sent request cannot file duplicates.
  */
 export default defineEventHandler(async (event) => {
   const actor = await requireRole(event, 'analyst')
@@ -62,6 +65,18 @@ export default defineEventHandler(async (event) => {
   if (issues.length) throw unprocessable(`Cannot attach: ${issues.map(i => i.message).join('; ')}`, issues, 'quantity-unavailable')
 
   const rows = await db.transaction(async (tx) => {
+    const a = schema.attachments
+    const pending = await tx.select().from(a).where(and(
+      eq(a.objectId, id), eq(a.state, 'proposed'), inArray(a.quantityKey, snapshots.map(s => s.key)),
+      link.lobeId !== undefined ? eq(a.lobeId, link.lobeId) : isNull(a.lobeId),
+      link.studyId !== undefined ? eq(a.studyId, link.studyId) : isNull(a.studyId),
+    ))
+    const same = snapshots.flatMap(s => pending.filter(p => p.quantityKey === s.key && p.subject === s.subject
+      && p.referenceRadius === s.referenceRadius && JSON.stringify(p.value) === JSON.stringify(s.value)))
+    if (same.length) {
+      const list = same.map(p => `#${p.id} ${quantityDef(p.quantityKey)?.label ?? p.quantityKey} (${RECORD_SUBJECT_LABELS[p.subject as RecordSubject] ?? p.subject})`).join(', ')
+      throw createError({ status: 409, statusText: 'Conflict', message: `Already awaiting review on this record with the same value from the same ${'lobe' in body ? 'lobe' : 'study'}: ${list}. Nothing was proposed.`, data: { code: 'duplicate-proposal', attachments: same.map(p => p.id) } })
+    }
     const inserted = await tx.insert(schema.attachments).values(snapshots.map(s => ({
       objectId: id,
       quantityKey: s.key,
