@@ -87,7 +87,7 @@ export function lobeView(lobe: Lobe, job?: Job, owner?: { id: number, name: stri
     algorithmVersion: lobe.algorithmVersion,
     spinPeriodHours: lobe.spinPeriodHours,
     spinAxis: lobe.spinAxis,
-    assumptions: 'Homogeneous interior at the stated bulk density; the mesh is taken as the exact surface. Estimates, not measurements.',
+    assumptions: 'Homogeneous interior at the stated bulk density; the mesh is taken as the exact surface. Estimates, not measurements. escapeSpeedSurface is the non-rotating escape speed √(2U) even when a spin is given (slopeDeg and geopotentialHeight include the spin).',
     frames: 'Vectors and tensors are in the file axes (metres, origin of the file) unless named otherwise; principalAxes rows are unit vectors in A ≤ B ≤ C order, right-handed. C20Normalized = −J2/√5 (4π normalisation).',
     properties: {
       density: p.density,

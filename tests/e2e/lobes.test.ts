@@ -154,7 +154,7 @@ describe('lobe uploads through the API', () => {
   it('answers bad record addresses with the not-found page (404, our wording, a way back)', async () => {
     for (const path of ['/lobes/abc', '/studies/abc', '/objects/0', '/objects/-3/edit', '/studies/1.5', '/lobes/99999']) {
       // (an analyst: /objects/:id/edit needs that role, and the role check comes first)
-      const res = await as.analyst.get(path)
+      const res = await as.analyst.get(path, { accept: 'text/html' })
       expect(res.status, path).toBe(404)
       expect(res.text, path).toContain('Not found')
       expect(res.text, path).not.toMatch(/Invalid route parameter|Too small/)
