@@ -1,16 +1,19 @@
 import { GeometryError } from '../../shared/geometry/types'
 
-/** Maps a core GeometryError to 422 with `data: { code, issues }`; other errors pass through. */
+/**
+ * Maps a core GeometryError to 422 with `data: { code, issues }`; other errors pass through.
+ * The core prefixes its messages with the function name (for developers); people get the rest.
+ * The core's messages say themselves how they number faces and vertices, so nothing is appended.
+ */
 export function toHttpError(error: unknown) {
   if (error instanceof GeometryError) {
-    // The core prefixes messages with its function name (for developers); people get the rest.
     const text = error.message.replace(/^[a-zA-Z]+: /, '')
-    const counted = /faces\[|vertices\[|\bface \d|\bvertex \d/.test(text) || error.issues.some(i => /\[\d+\]/.test(i.path))
     return createError({
       status: 422,
       statusText: 'Unprocessable Content',
-      message: counted ? `${text} (faces and vertices are numbered from 0, in file order)` : text,
-      data: { code: error.code, issues: error.issues.length ? error.issues : [{ path: 'file', message: error.message }] },
+      message: text,
+      // Issues add places (faces, lines) to the message; a message without places has none.
+      data: { code: error.code, issues: error.issues },
     })
   }
   return error

@@ -20,7 +20,47 @@ export interface SurfaceSummary {
   geopotentialHeight: { min: number, max: number, mean: number }
   escapeSpeedSurface: { min: number, max: number, mean: number }
   spin: { periodHours: number, axis: Vec3 } | null
+  /**
+   * Where the slope exceeds 90° the net of gravity and the spin's centrifugal acceleration points
+   * away from the surface: loose material there lifts off. Area-weighted fraction (0..1) and the
+   * number of evaluation points; absent in summaries written before it was computed.
+   */
+  liftOff?: { areaFraction: number, points: number }
   fieldsFile: string
+}
+
+/** Slope beyond which the net acceleration points off the surface, degrees. */
+export const LIFT_OFF_SLOPE_DEG = 90
+
+/** Area-weighted share of the evaluation points whose slope exceeds 90°. */
+export function liftOffShare(slopeDeg: ArrayLike<number>, areas: ArrayLike<number>): { areaFraction: number, points: number } {
+  let total = 0, off = 0, points = 0
+  for (let i = 0; i < slopeDeg.length; i++) {
+    const a = areas[i]!
+    total += a
+    if (slopeDeg[i]! > LIFT_OFF_SLOPE_DEG) { off += a; points++ }
+  }
+  return { areaFraction: total > 0 ? off / total : 0, points }
+}
+
+/**
+ * Cautions about the surface fields, for people (lobe page) and programs (lobe view): loose
+ * material lifting off where the spin beats gravity.
+ */
+export function surfaceCautions(surface: SurfaceSummary | null, density: number): { code: string, message: string }[] {
+  if (!surface?.spin || !(surface.slopeDeg.max > LIFT_OFF_SLOPE_DEG)) return []
+  const share = surface.liftOff
+    ? `${share100(surface.liftOff.areaFraction)} of the surface (by area, ${surface.liftOff.points} of ${surface.evaluation.points} evaluation points)`
+    : 'part of the surface'
+  return [{
+    code: 'surface-lift-off',
+    message: `On ${share} the slope exceeds 90° (up to ${surface.slopeDeg.max.toFixed(1)}°): the net of gravity and the centrifugal acceleration of the ${surface.spin.periodHours} h spin points away from the surface, so loose material there would lift off. At ${density} kg m⁻³ the lobe spins faster than its surface can hold loose material; a body really spinning this fast needs cohesion or a higher density there, or it sheds material.`,
+  }]
+}
+
+function share100(f: number): string {
+  const p = f * 100
+  return `${p >= 10 ? p.toFixed(0) : p >= 0.1 ? p.toFixed(1) : p > 0 ? '< 0.1' : '0'} %`
 }
 
 function jobView(job: Job | undefined) {
@@ -47,7 +87,7 @@ export function lobeView(lobe: Lobe, job?: Job, owner?: { id: number, name: stri
     algorithmVersion: lobe.algorithmVersion,
     spinPeriodHours: lobe.spinPeriodHours,
     spinAxis: lobe.spinAxis,
-    assumptions: 'Homogeneous interior at the stated bulk density; the mesh is taken as the exact surface. Estimates, not measurements.',
+    assumptions: 'Homogeneous interior at the stated bulk density; the mesh is taken as the exact surface. Estimates, not measurements. escapeSpeedSurface is the non-rotating escape speed √(2U) even when a spin is given (slopeDeg and geopotentialHeight include the spin).',
     frames: 'Vectors and tensors are in the file axes (metres, origin of the file) unless named otherwise; principalAxes rows are unit vectors in A ≤ B ≤ C order, right-handed. C20Normalized = −J2/√5 (4π normalisation).',
     properties: {
       density: p.density,
@@ -75,6 +115,7 @@ export function lobeView(lobe: Lobe, job?: Job, owner?: { id: number, name: stri
       escapeSpeedSurface: surface?.escapeSpeedSurface ?? null,
       surfaceGravity: surface?.surfaceGravity ?? null,
       slopeDeg: surface?.slopeDeg ?? null,
+      liftOff: surface?.spin ? (surface.liftOff ?? null) : null,
       geopotentialHeight: surface?.geopotentialHeight ?? null,
       surfaceEvaluation: surface?.evaluation ?? null,
       components: p.components ?? null,
@@ -82,6 +123,8 @@ export function lobeView(lobe: Lobe, job?: Job, owner?: { id: number, name: stri
       gravityJob: jobView(job),
     },
     report: lobe.report,
+    /** Cautions about the surface fields (e.g. 'surface-lift-off'); empty when there are none. */
+    surfaceCautions: surfaceCautions(surface, p.density),
   }
 }
 
@@ -194,6 +237,7 @@ async function runSurfaceJob(db: DB, lobe: Lobe, job: Job) {
       geopotentialHeight: summarise(height, ev.areas),
       escapeSpeedSurface: summarise(escape, ev.areas),
       spin: omega ? { periodHours: lobe.spinPeriodHours!, axis: axis! } : null,
+      liftOff: liftOffShare(slopeDeg, ev.areas),
       fieldsFile,
     }
     await db.update(schema.lobes).set({ surface: surface as unknown as Record<string, unknown> }).where(eq(schema.lobes.id, lobe.id))

@@ -21,6 +21,7 @@ export function readObj(b: Uint8Array, limits: ObjLimits): { mesh: TriMesh, sour
   const est = Math.min(Math.ceil(end / 60) + 16, 1 << 24)
   const pos = new F64Builder(est * 3)
   const idx = new U32Builder(est * 6)
+  const src = new U32Builder(est * 2) // triangle → face number in the file (from 0)
   let nv = 0
   let sourceFaces = 0
   let triangulated = 0
@@ -66,15 +67,18 @@ export function readObj(b: Uint8Array, limits: ObjLimits): { mesh: TriMesh, sour
         poly[n++] = r
       }
       if (n < 3) fail('bad-face', `face with ${n} vertices (at least 3 needed)`, line)
+      const face = sourceFaces
       sourceFaces++
       if (n > 3) triangulated++
       const add = (n - 2) * 3
       if ((idx.n + add) / 3 > limits.maxFaces) throw new GeometryError('too-large', `readObj: more than ${limits.maxFaces} triangles`)
       if (idx.n + add > idx.a.length) idx.grow(idx.n + add)
+      if (src.n + n - 2 > src.a.length) src.grow(src.n + n - 2)
       const a = idx.a
       const v0 = poly[0]!
       for (let k = 1; k + 1 < n; k++) {
         a[idx.n++] = v0; a[idx.n++] = poly[k]!; a[idx.n++] = poly[k + 1]!
+        src.a[src.n++] = face
       }
     }
     // to the end of the line (rest of a v line: w or colours; comments; other statements)
@@ -84,6 +88,7 @@ export function readObj(b: Uint8Array, limits: ObjLimits): { mesh: TriMesh, sour
   }
   if (nv === 0 || idx.n === 0) throw new GeometryError('empty-mesh', `readObj: no ${nv === 0 ? 'vertices' : 'faces'} found`)
   const indices = idx.finish()
-  checkIndexRange(indices, nv, 'readObj')
-  return { mesh: { positions: pos.finish(), indices }, sourceFaceCount: sourceFaces, triangulatedPolygons: triangulated }
+  const sourceFace = src.finish()
+  checkIndexRange(indices, sourceFace, nv, 'readObj')
+  return { mesh: { positions: pos.finish(), indices, sourceFace }, sourceFaceCount: sourceFaces, triangulatedPolygons: triangulated }
 }

@@ -7,7 +7,7 @@
  * comment to the end of the line and lines starting with `comment` are skipped.
  * Declared counts are checked against what the file size can hold before anything is allocated.
  */
-import { GeometryError } from './types'
+import { FILE_FACE_NUMBERING, GeometryError } from './types'
 import type { TriMesh } from './types'
 import { U32Builder, checkIndexRange, isSep, latin1, parseNumber, cursor } from './readers'
 
@@ -68,18 +68,20 @@ export function parsePlyHeader(b: Uint8Array): PlyHeader {
     const w = text.split(/[ \t]+/)
     const kw = w[0]
     if (lineNo === 1) {
-      if (text !== 'ply') bad('missing "ply" magic', 1)
+      if (text !== 'ply') bad('the first line must be "ply"', 1)
       continue
     }
     if (kw === '' || kw === 'comment' || kw === 'obj_info') continue
     if (kw === 'format') {
-      if (w[1] !== 'ascii' && w[1] !== 'binary_little_endian' && w[1] !== 'binary_big_endian') bad('unknown format (ascii, binary_little_endian, binary_big_endian)', lineNo)
-      if (w[2] !== '1.0' && w[2] !== '1') bad('unsupported format version (1.0 expected)', lineNo)
+      if (w[1] !== 'ascii' && w[1] !== 'binary_little_endian' && w[1] !== 'binary_big_endian') bad(`format "${sanitize(w[1] ?? '')}" is not ascii, binary_little_endian or binary_big_endian`, lineNo)
+      if (w[2] !== '1.0' && w[2] !== '1') bad(`format version "${sanitize(w[2] ?? '')}" is not supported (1.0 expected)`, lineNo)
       format = w[1]
     } else if (kw === 'element') {
-      if (w.length !== 3 || !/^\d+$/.test(w[2]!)) bad('malformed element line', lineNo)
+      if (w.length < 3) bad('an element line needs a name and a count, e.g. "element vertex 8"', lineNo)
+      if (w.length > 3) bad(`element ${sanitize(w[1]!)} line has more than a name and a count`, lineNo)
+      if (!/^\d+$/.test(w[2]!)) bad(`element ${sanitize(w[1]!)} count "${sanitize(w[2]!)}" is not a whole number`, lineNo)
       const count = Number(w[2])
-      if (!Number.isSafeInteger(count)) bad('element count too large', lineNo)
+      if (!Number.isSafeInteger(count)) bad(`element ${sanitize(w[1]!)} count is too large`, lineNo)
       elements.push({ name: w[1]!, count, props: [] })
     } else if (kw === 'property') {
       const el = elements[elements.length - 1]
@@ -87,18 +89,21 @@ export function parsePlyHeader(b: Uint8Array): PlyHeader {
       if (w[1] === 'list') {
         const ct = TYPES[w[2]!]
         const it = TYPES[w[3]!]
-        if (w.length !== 5 || !ct || !it) bad('malformed list property', lineNo)
+        if (w.length !== 5) bad('a list property needs a count type, an index type and a name, e.g. "property list uchar int vertex_indices"', lineNo)
+        if (!ct) bad(`unknown list count type "${sanitize(w[2]!)}"`, lineNo)
+        if (!it) bad(`unknown list item type "${sanitize(w[3]!)}"`, lineNo)
         if (!ct.int) bad('list count type must be an integer type', lineNo)
         el.props.push({ name: w[4]!, type: it.code, list: true, countType: ct.code })
       } else {
         const t = TYPES[w[1]!]
-        if (w.length !== 3 || !t) bad('malformed property line or unknown type', lineNo)
+        if (w.length !== 3) bad('a property line needs a type and a name, e.g. "property float x"', lineNo)
+        if (!t) bad(`unknown property type "${sanitize(w[1]!)}" (char, uchar, short, ushort, int, uint, float, double or int8 … float64)`, lineNo)
         el.props.push({ name: w[2]!, type: t.code, list: false, countType: 0 })
       }
     } else if (kw === 'end_header') {
       break
     } else {
-      bad('unknown header keyword', lineNo)
+      bad(`unknown header keyword "${sanitize(kw ?? '')}"`, lineNo)
     }
   }
   if (!format) bad('no format line')
@@ -166,6 +171,7 @@ function readBinaryBody(b: Uint8Array, h: PlyHeader, vEl: Element, fEl: Element,
   let o = h.bodyStart
   const positions = new Float64Array(vEl.count * 3)
   const idx = new U32Builder(fEl.count * 3)
+  const src = new U32Builder(fEl.count) // triangle → face number in the file (from 0)
   let sourceFaces = 0
   let triangulated = 0
   for (const el of h.elements) {
@@ -216,6 +222,7 @@ function readBinaryBody(b: Uint8Array, h: PlyHeader, vEl: Element, fEl: Element,
         const add = 3 * (n - 2)
         if (idx.n + add > idx.a.length) idx.grow(idx.n + add)
         if ((idx.n + add) / 3 > limits.maxFaces) throw new GeometryError('too-large', `readPly: more than ${limits.maxFaces} triangles`)
+        addSource(src, f, n - 2)
         const a = idx.a
         const v0 = signed ? dv.getInt32(o, le) : dv.getUint32(o, le)
         if (v0 < 0) throw negIndex(f)
@@ -258,6 +265,7 @@ function readBinaryBody(b: Uint8Array, h: PlyHeader, vEl: Element, fEl: Element,
             const add = 3 * (n - 2)
             if (idx.n + add > idx.a.length) idx.grow(idx.n + add)
             if ((idx.n + add) / 3 > limits.maxFaces) throw new GeometryError('too-large', `readPly: more than ${limits.maxFaces} triangles`)
+            addSource(src, item, n - 2)
             const a = idx.a
             const v0 = readScalar(dv, o, p.type, le)
             let prev = readScalar(dv, o + s, p.type, le)
@@ -274,24 +282,31 @@ function readBinaryBody(b: Uint8Array, h: PlyHeader, vEl: Element, fEl: Element,
       }
     }
   }
-  return finish(positions, idx, vEl.count, sourceFaces, triangulated)
+  return finish(positions, idx, src, vEl.count, sourceFaces, triangulated)
 }
 
-function finish(positions: Float64Array, idx: U32Builder, nv: number, sourceFaces: number, triangulated: number) {
+/** Record that the next `count` triangles come from face `face` of the file. */
+function addSource(src: U32Builder, face: number, count: number) {
+  if (src.n + count > src.a.length) src.grow(src.n + count)
+  for (let k = 0; k < count; k++) src.a[src.n++] = face
+}
+
+function finish(positions: Float64Array, idx: U32Builder, src: U32Builder, nv: number, sourceFaces: number, triangulated: number) {
   if (nv === 0 || idx.n === 0) throw new GeometryError('empty-mesh', `readPly: no ${nv === 0 ? 'vertices' : 'faces'}`)
   const indices = idx.finish()
-  checkIndexRange(indices, nv, 'readPly')
-  return { mesh: { positions, indices }, sourceFaceCount: sourceFaces, triangulatedPolygons: triangulated }
+  const sourceFace = src.finish()
+  checkIndexRange(indices, sourceFace, nv, 'readPly')
+  return { mesh: { positions, indices, sourceFace }, sourceFaceCount: sourceFaces, triangulatedPolygons: triangulated }
 }
 
 function sanitize(s: string): string {
   return s.replace(/[^A-Za-z0-9_-]/g, '?').slice(0, 40)
 }
 function badFace(f: number, n: number): GeometryError {
-  return new GeometryError('bad-face', `readPly: face ${f} has ${n} vertices (at least 3 needed)`, [{ path: `faces[${f}]`, message: `${n} vertices` }])
+  return new GeometryError('bad-face', `readPly: face ${f} has ${n} vertices, at least 3 needed (${FILE_FACE_NUMBERING})`, [{ path: `faces[${f}]`, message: `${n} vertices` }])
 }
 function negIndex(f: number): GeometryError {
-  return new GeometryError('index-out-of-range', `readPly: face ${f} has a negative vertex index`, [{ path: `faces[${f}]`, message: 'negative vertex index' }])
+  return new GeometryError('index-out-of-range', `readPly: face ${f} has a negative vertex index (${FILE_FACE_NUMBERING})`, [{ path: `faces[${f}]`, message: 'negative vertex index' }])
 }
 
 function readAsciiBody(b: Uint8Array, h: PlyHeader, vEl: Element, fEl: Element, xyz: number[], fi: number, limits: PlyLimits) {
@@ -300,6 +315,7 @@ function readAsciiBody(b: Uint8Array, h: PlyHeader, vEl: Element, fEl: Element, 
   let line = 0 // body line number
   const positions = new Float64Array(vEl.count * 3)
   const idx = new U32Builder(fEl.count * 3)
+  const src = new U32Builder(fEl.count) // triangle → face number in the file (from 0)
   let sourceFaces = 0
   let triangulated = 0
   let poly = new Float64Array(64)
@@ -376,6 +392,7 @@ function readAsciiBody(b: Uint8Array, h: PlyHeader, vEl: Element, fEl: Element, 
           const add = 3 * (n - 2)
           if (idx.n + add > idx.a.length) idx.grow(idx.n + add)
           if ((idx.n + add) / 3 > limits.maxFaces) throw new GeometryError('too-large', `readPly: more than ${limits.maxFaces} triangles`)
+          addSource(src, item, n - 2)
           const a = idx.a
           for (let k = 1; k + 1 < n; k++) { a[idx.n++] = poly[0]!; a[idx.n++] = poly[k]!; a[idx.n++] = poly[k + 1]! }
         }
@@ -384,5 +401,5 @@ function readAsciiBody(b: Uint8Array, h: PlyHeader, vEl: Element, fEl: Element, 
     }
   }
   if (nextLine()) mismatch('data after the last declared element')
-  return finish(positions, idx, vEl.count, sourceFaces, triangulated)
+  return finish(positions, idx, src, vEl.count, sourceFaces, triangulated)
 }

@@ -7,7 +7,7 @@
  * (Clinger 1990: both operands exact, one correctly rounded operation), anything else falls back
  * to `Number()` on the short token.
  */
-import { GeometryError } from './types'
+import { FILE_FACE_NUMBERING, GeometryError } from './types'
 import type { TriMesh } from './types'
 import { readObj } from './obj'
 import { readPly } from './ply'
@@ -24,7 +24,7 @@ export interface ReadOptions {
 export interface ReadResult {
   mesh: TriMesh
   format: 'obj' | 'ply'
-  /** Number of faces (polygons) in the file, before triangulation. */
+  /** Number of faces (polygons) in the file, before triangulation; `mesh.sourceFace` maps triangles to them. */
   sourceFaceCount: number
   /** Number of polygons with more than three vertices that were fan-triangulated. */
   triangulatedPolygons: number
@@ -234,19 +234,22 @@ export class F64Builder {
   finish(): Float64Array { return this.a.length === this.n ? this.a : this.a.slice(0, this.n) }
 }
 
-/** Throw 'index-out-of-range' for the first index ≥ vertexCount (message gives face numbers). */
-export function checkIndexRange(indices: Uint32Array, vertexCount: number, who: string): void {
+/**
+ * Throw 'index-out-of-range' when an index is ≥ vertexCount. The message names the faces as the
+ * file numbers them (`sourceFace`: triangle → face in the file, from 0).
+ */
+export function checkIndexRange(indices: Uint32Array, sourceFace: Uint32Array, vertexCount: number, who: string): void {
   let bad = 0
   const first: number[] = []
   for (let i = 0; i < indices.length; i++) {
     if (indices[i]! >= vertexCount) {
       bad++
-      const f = (i / 3) | 0
-      if (first.length < 5 && first[first.length - 1] !== f) first.push(f)
+      const f = sourceFace[(i / 3) | 0]!
+      if (first.length < 5 && !first.includes(f)) first.push(f)
     }
   }
   if (bad > 0) {
-    throw new GeometryError('index-out-of-range', `${who}: ${bad} vertex indices are out of range (vertex count ${vertexCount}); first triangles: ${first.join(', ')}`,
-      first.map(f => ({ path: `faces[${f}]`, message: `vertex index out of range (vertex count ${vertexCount})` })))
+    throw new GeometryError('index-out-of-range', `${who}: ${bad} vertex indices are out of range (the file has ${vertexCount} vertices); first faces: ${first.join(', ')} (${FILE_FACE_NUMBERING})`,
+      first.map(f => ({ path: `faces[${f}]`, message: `vertex index out of range (the file has ${vertexCount} vertices)` })))
   }
 }

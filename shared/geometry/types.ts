@@ -9,6 +9,13 @@ export interface TriMesh {
   positions: Float64Array
   /** Vertex indices, three per triangle. */
   indices: Uint32Array
+  /**
+   * Set by the file readers: for each triangle, the number of the face in the file it came from,
+   * counting from 0 in file order (the n-th `f` line or face element). Polygons are split into
+   * triangles, so several triangles can share one face. Validation messages use it to name faces
+   * as the file numbers them; meshes built in code leave it out.
+   */
+  sourceFace?: Uint32Array
 }
 
 export type Vec3 = [number, number, number]
@@ -27,3 +34,6 @@ export class GeometryError extends Error {
     this.issues = issues
   }
 }
+
+/** How messages number the faces of an uploaded file (see `TriMesh.sourceFace`). */
+export const FILE_FACE_NUMBERING = 'faces are numbered from 0 in file order: the first face line or face element is face 0'

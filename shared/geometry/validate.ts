@@ -10,7 +10,7 @@
  */
 import { MeshBVH, ExtendedTriangle } from 'three-mesh-bvh'
 import { BufferAttribute, BufferGeometry, Matrix4 } from 'three'
-import { GeometryError } from './types'
+import { FILE_FACE_NUMBERING, GeometryError } from './types'
 import type { TriMesh } from './types'
 
 export interface ValidationWarning { code: string, message: string }
@@ -39,6 +39,7 @@ export interface ValidationReport {
   componentFaceCounts: number[]
   /** Signed volume after repair, m³ (positive). */
   volume: number
+  /** firstPairs: face numbers in the file when the input carries `sourceFace`, else triangle indices. */
   selfIntersections: { checked: boolean, count: number, firstPairs: [number, number][] }
   /** For each output triangle, the index of the input triangle it came from. */
   faceOrigin: Uint32Array
@@ -65,8 +66,9 @@ function issuesFor(faces: ArrayLike<number>, msg: string, kind = 'faces'): { pat
  * Check and repair a triangle mesh. Returns a new mesh (the input is not modified) and a report.
  * @throws GeometryError 'empty-mesh', 'non-finite', 'index-out-of-range', 'degenerate-face',
  *   'open-mesh', 'non-manifold-edge', 'non-orientable', 'non-manifold-vertex'. The message gives
- *   counts and the first few (input) face or vertex indices; `issues` lists them as
- *   { path: 'faces[17]', message }.
+ *   counts and the first few faces or vertices; `issues` lists them as { path: 'faces[17]', message }.
+ *   Faces are named by the file's own numbering (`mesh.sourceFace`, from 0) when the mesh came
+ *   from a reader, else by input triangle index (from 0); vertices by input index (from 0).
  */
 export function validateMesh(mesh: TriMesh, opts: ValidateOptions = {}): { mesh: TriMesh, report: ValidationReport } {
   const P0 = mesh.positions
@@ -76,6 +78,15 @@ export function validateMesh(mesh: TriMesh, opts: ValidateOptions = {}): { mesh:
   const nf0 = I0.length / 3
   if (nv0 === 0 || nf0 === 0) throw new GeometryError('empty-mesh', 'validateMesh: the mesh has no vertices or no faces')
   const warnings: ValidationWarning[] = []
+  // Name faces as the file numbers them: a polygon split into triangles is still one face.
+  const src = mesh.sourceFace && mesh.sourceFace.length === nf0 ? mesh.sourceFace : undefined
+  const faceList = (tris: number[]): number[] => {
+    const out: number[] = []
+    for (const t of tris) { const f = src ? src[t]! : t; if (!out.includes(f)) out.push(f) }
+    return out
+  }
+  const FACES = src ? 'faces' : 'triangles'
+  const numbering = src ? ` (${FILE_FACE_NUMBERING})` : ' (triangles numbered from 0)'
 
   // 1. finite coordinates, bounding box
   let minx = Infinity, miny = Infinity, minz = Infinity, maxx = -Infinity, maxy = -Infinity, maxz = -Infinity
@@ -92,7 +103,7 @@ export function validateMesh(mesh: TriMesh, opts: ValidateOptions = {}): { mesh:
     if (y < miny) miny = y; if (y > maxy) maxy = y
     if (z < minz) minz = z; if (z > maxz) maxz = z
   }
-  if (nBadV > 0) throw new GeometryError('non-finite', `validateMesh: ${nBadV} vertices have non-finite coordinates; first: ${badV.join(', ')}`, issuesFor(badV, 'non-finite coordinate', 'vertices'))
+  if (nBadV > 0) throw new GeometryError('non-finite', `validateMesh: ${nBadV} vertices have non-finite coordinates; first: ${badV.join(', ')} (vertices numbered from 0 in file order)`, issuesFor(badV, 'non-finite coordinate', 'vertices'))
 
   // 2. indices in range
   {
@@ -101,7 +112,8 @@ export function validateMesh(mesh: TriMesh, opts: ValidateOptions = {}): { mesh:
     for (let i = 0; i < I0.length; i++) {
       if (I0[i]! >= nv0) { n++; const f = (i / 3) | 0; if (first.length < MAX_LISTED && first[first.length - 1] !== f) first.push(f) }
     }
-    if (n > 0) throw new GeometryError('index-out-of-range', `validateMesh: ${n} vertex indices out of range (vertex count ${nv0}); first faces: ${first.join(', ')}`, issuesFor(first, 'vertex index out of range'))
+    const ff = faceList(first)
+    if (n > 0) throw new GeometryError('index-out-of-range', `validateMesh: ${n} vertex indices out of range (vertex count ${nv0}); first ${FACES}: ${ff.join(', ')}${numbering}`, issuesFor(ff, 'vertex index out of range'))
   }
 
   // 3. weld within tolerance (spatial hash, cells of 8·tol, neighbour cells checked near a boundary).
@@ -141,7 +153,7 @@ export function validateMesh(mesh: TriMesh, opts: ValidateOptions = {}): { mesh:
     faceOrigin[nf] = f
     nf++
   }
-  if (nf === 0) throw new GeometryError('degenerate-face', `validateMesh: all ${nf0} faces are degenerate (zero area)`, issuesFor(degFaces, 'zero-area face'))
+  if (nf === 0) throw new GeometryError('degenerate-face', `validateMesh: all ${nf0} triangles are degenerate (zero area)`, issuesFor(faceList(degFaces), 'zero-area face'))
   if (nf < nf0) { I = I.slice(0, 3 * nf); faceOrigin = faceOrigin.slice(0, nf) }
 
   // 5. drop unreferenced vertices, build compact positions
@@ -165,22 +177,23 @@ export function validateMesh(mesh: TriMesh, opts: ValidateOptions = {}): { mesh:
   let E = E0 && !doWeld && nf === nf0 && nv === nv0 ? E0 : analyseEdges(I, nv)
   if (E.boundary > 0 || E.nonManifold > 0) {
     if (E.nonManifold > 0) {
-      const f = E.nonManifoldFaces.map(x => faceOrigin[x]!)
-      throw new GeometryError('non-manifold-edge', `validateMesh: ${E.nonManifold} edges are shared by more than two faces; first faces: ${f.join(', ')}`, issuesFor(f, 'edge shared by more than two faces'))
+      const f = faceList(E.nonManifoldFaces.map(x => faceOrigin[x]!))
+      throw new GeometryError('non-manifold-edge', `validateMesh: ${E.nonManifold} edges are shared by more than two faces; first ${FACES}: ${f.join(', ')}${numbering}`, issuesFor(f, 'edge shared by more than two faces'))
     }
-    const f = E.boundaryFaces.map(x => faceOrigin[x]!)
+    const f = faceList(E.boundaryFaces.map(x => faceOrigin[x]!))
     if (degenerate > 0) {
       // was it closed before the degenerate faces were dropped?
       const withDeg = new Uint32Array(nf0 * 3)
       for (let i = 0; i < I0.length; i++) withDeg[i] = weldMap[I0[i]!]!
       const E2 = analyseEdges(withDeg, nvWeld, true)
       if (E2.boundary === 0) {
-        throw new GeometryError('degenerate-face', `validateMesh: ${degenerate} zero-area faces cannot be dropped without opening the mesh (${E.boundary} boundary edges would remain); first degenerate faces: ${degFaces.join(', ')}`, issuesFor(degFaces, 'zero-area face'))
+        const d = faceList(degFaces)
+        throw new GeometryError('degenerate-face', `validateMesh: ${degenerate} zero-area triangles cannot be dropped without opening the mesh (${E.boundary} boundary edges would remain); first ${FACES} with them: ${d.join(', ')}${numbering}`, issuesFor(d, 'zero-area face'))
       }
     }
-    throw new GeometryError('open-mesh', `validateMesh: the mesh is open: ${E.boundary} boundary edges (edges used by one face only); first faces: ${f.join(', ')}`, issuesFor(f, 'face with a boundary edge'))
+    throw new GeometryError('open-mesh', `validateMesh: the mesh is open: ${E.boundary} boundary edges (edges used by one face only); first ${FACES}: ${f.join(', ')}${numbering}`, issuesFor(f, 'face with a boundary edge'))
   }
-  if (degenerate > 0) warnings.push({ code: 'degenerate-faces', message: `${degenerate} zero-area faces were dropped; first: ${degFaces.join(', ')}` })
+  if (degenerate > 0) warnings.push({ code: 'degenerate-faces', message: `${degenerate} zero-area triangles were dropped; first ${FACES} with them: ${faceList(degFaces).join(', ')}${numbering}` })
 
   // 7. orientation: BFS over faces through edges; components
   const flip = new Int8Array(nf).fill(-1)
@@ -214,7 +227,10 @@ export function validateMesh(mesh: TriMesh, opts: ValidateOptions = {}): { mesh:
     compFlips.push(flips)
     nComp++
   }
-  if (badOrient.length > 0) throw new GeometryError('non-orientable', `validateMesh: the surface is not orientable (no consistent winding exists, e.g. a Möbius band); faces involved include: ${badOrient.join(', ')}`, issuesFor(badOrient, 'inconsistent winding that cannot be fixed'))
+  if (badOrient.length > 0) {
+    const f = faceList(badOrient)
+    throw new GeometryError('non-orientable', `validateMesh: the surface is not orientable (no consistent winding exists, e.g. a Möbius band); ${FACES} involved include: ${f.join(', ')}${numbering}`, issuesFor(f, 'inconsistent winding that cannot be fixed'))
+  }
   // keep the majority winding of each component
   const invertBfs = compFlips.map((fl, c) => fl * 2 > compSizes[c]!)
   let flippedFaces = 0
@@ -245,7 +261,8 @@ export function validateMesh(mesh: TriMesh, opts: ValidateOptions = {}): { mesh:
       } while (g !== h0 && steps <= deg)
       if (steps !== deg) { bad++; if (first.length < MAX_LISTED) first.push(faceOrigin[(h0 / 3) | 0]!) }
     }
-    if (bad > 0) throw new GeometryError('non-manifold-vertex', `validateMesh: ${bad} vertices are non-manifold (their faces form more than one fan, e.g. two bodies touching at a point); first faces at such vertices: ${first.join(', ')}`, issuesFor(first, 'face at a non-manifold vertex'))
+    const f = faceList(first)
+    if (bad > 0) throw new GeometryError('non-manifold-vertex', `validateMesh: ${bad} vertices are non-manifold (their faces form more than one fan, e.g. two bodies touching at a point); first ${FACES} at such vertices: ${f.join(', ')}${numbering}`, issuesFor(f, 'face at a non-manifold vertex'))
   }
 
   // 9. signed volume per component; reverse inside-out components
@@ -275,8 +292,11 @@ export function validateMesh(mesh: TriMesh, opts: ValidateOptions = {}): { mesh:
   let selfIntersections: ValidationReport['selfIntersections'] = { checked: false, count: 0, firstPairs: [] }
   if (nf <= maxSI) {
     selfIntersections = findSelfIntersections({ positions: P, indices: I })
-    selfIntersections.firstPairs = selfIntersections.firstPairs.map(([a, b]) => [faceOrigin[a]!, faceOrigin[b]!])
-    if (selfIntersections.count > 0) warnings.push({ code: 'self-intersections', message: `${selfIntersections.count} pairs of non-adjacent faces intersect; volume and gravity are unreliable` })
+    selfIntersections.firstPairs = selfIntersections.firstPairs.map(([a, b]) => {
+      const fa = faceOrigin[a]!, fb = faceOrigin[b]!
+      return src ? [src[fa]!, src[fb]!] : [fa, fb]
+    })
+    if (selfIntersections.count > 0) warnings.push({ code: 'self-intersections', message: `${selfIntersections.count} pairs of non-adjacent triangles intersect (first pairs of ${FACES}: ${selfIntersections.firstPairs.slice(0, 3).map(p => p.join('–')).join(', ')}${numbering}); volume and gravity are unreliable` })
   } else {
     warnings.push({ code: 'self-intersection-not-checked', message: `self-intersections were not checked (${nf} faces > ${maxSI})` })
   }

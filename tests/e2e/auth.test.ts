@@ -114,8 +114,16 @@ describe('sign-in, sessions, invitations and password resets', () => {
 
   it('resets a password by mail over local SMTP; the link works once; an expired link is refused; only hashes are stored', async () => {
     const email = 'resetter@example.org'
-    await admin.post('/api/invitations', { email, role: 'analyst' })
-    const joinLink = linkIn((await latestMailTo(admin, email)).text)
+    const invited = await admin.post('/api/invitations', { email, role: 'analyst' })
+    const invitation = await latestMailTo(admin, email)
+    // Subject prefix like every other mail; expiry written for people, in UTC, to the minute.
+    expect(invitation.subject).toBe('[Isthmus] You are invited to an Isthmus team')
+    const expires = new Date(invited.json.expiresAt)
+    const month = expires.toLocaleString('en-GB', { month: 'long', timeZone: 'UTC' })
+    const hhmm = expires.toISOString().slice(11, 16)
+    expect(invitation.text).toContain(`The link expires on ${expires.getUTCDate()} ${month} ${expires.getUTCFullYear()}, ${hhmm} UTC.`)
+    expect(invitation.text).not.toMatch(/\d{4}-\d\d-\d\dT/)
+    const joinLink = linkIn(invitation.text)
     expect(joinLink.startsWith(server.env.ISTHMUS_PUBLIC_URL!)).toBe(true)
     const joinToken = joinLink.split('/join/')[1]!
     const member = new Agent(server.url)
@@ -131,6 +139,7 @@ describe('sign-in, sessions, invitations and password resets', () => {
     expect(unknown.json.message).toBe(known.json.message)
     // The mail is sent after the answer: wait for it.
     const mail = await latestMailTo(admin, email, 5000, m => /reset/i.test(m.subject))
+    expect(mail.subject).toBe('[Isthmus] Reset your password')
     const token = linkIn(mail.text).split('/reset/')[1]!
     expect((await anon.get(`/api/password-resets/${token}`)).status).toBe(200)
     expect((await anon.post(`/api/password-resets/${token}`, { password: 'second-password-2' })).status).toBe(200)

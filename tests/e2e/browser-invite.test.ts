@@ -125,6 +125,41 @@ describe('the README demo command brings the app up; in a real browser an admin 
     }
   })
 
+  it('on a phone the header is one row and the navigation folds into a menu button; bad addresses get the not-found page', async () => {
+    // The admin signed in above, in this browser profile.
+    const page = await browser.context.newPage()
+    await page.setViewportSize({ width: 390, height: 844 })
+    await page.goto(`${base}/lobes`)
+    const header = page.getByTestId('site-header')
+    expect((await header.boundingBox())!.height).toBeLessThanOrEqual(64)
+    const button = page.getByTestId('menu-button')
+    await expect.poll(() => button.getAttribute('aria-expanded')).toBe('false')
+    expect(await page.getByRole('link', { name: 'Contact studies' }).count()).toBe(0)
+    await button.focus()
+    await page.keyboard.press('Enter')
+    await expect.poll(() => button.getAttribute('aria-expanded')).toBe('true')
+    await expect.poll(() => page.getByTestId('site-menu').getByRole('link', { name: 'Audit trail' }).isVisible()).toBe(true)
+    await page.screenshot({ path: 'test-results/phone-menu.png' }).catch(() => undefined)
+    await page.keyboard.press('Escape')
+    await expect.poll(() => button.getAttribute('aria-expanded')).toBe('false')
+    await expect.poll(() => page.evaluate(() => document.activeElement?.getAttribute('data-testid'))).toBe('menu-button')
+    await button.click()
+    await page.getByTestId('site-menu').getByRole('link', { name: 'Contact studies' }).click()
+    await page.waitForURL(`${base}/studies`)
+    await expect.poll(() => button.getAttribute('aria-expanded')).toBe('false')
+    // Wide screens keep the navigation in the header and show no menu button.
+    await page.setViewportSize({ width: 1280, height: 900 })
+    expect(await button.isVisible()).toBe(false)
+    expect(await page.getByRole('navigation', { name: 'Main' }).getByRole('link', { name: 'Lobes' }).isVisible()).toBe(true)
+
+    const missing = await page.goto(`${base}/studies/abc`)
+    expect(missing!.status()).toBe(404)
+    await expect.poll(() => page.getByTestId('error-page').innerText()).toContain('Not found')
+    await page.getByRole('button', { name: 'All contact studies' }).click()
+    await page.waitForURL(`${base}/studies`)
+    await page.close()
+  })
+
   it('stops the whole process tree (demo script and server)', async () => {
     const pid = demo.child.pid!
     await demo.stop()

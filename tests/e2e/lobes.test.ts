@@ -106,6 +106,63 @@ describe('lobe uploads through the API', () => {
     expect((await as.viewer.get('/api/health')).status).toBe(200)
   })
 
+  it('names faces by the file numbering, says once what is wrong with garbage or a bad PLY header, without function names', async () => {
+    // A unit cube of six quads without its top (file face 1): the four side quads (file faces 1–4
+    // of the remaining five) carry the open rim (geometry of a cube; common practice, no source).
+    const V = 'v 0 0 0\nv 1 0 0\nv 0 1 0\nv 1 1 0\nv 0 0 1\nv 1 0 1\nv 0 1 1\nv 1 1 1\n'
+    const quads = ['1 3 4 2', '1 2 6 5', '3 7 8 4', '1 5 7 3', '2 4 8 6'].map(q => `f ${q}\n`).join('')
+    const open = await upload(as.analyst, new TextEncoder().encode(V + quads), 'open5.obj', { density: '1000' })
+    expect(open.status).toBe(422)
+    expect(open.json.data.code).toBe('open-mesh')
+    expect(new Set(open.json.data.issues.map((i: { path: string }) => i.path))).toEqual(new Set(['faces[1]', 'faces[2]', 'faces[3]', 'faces[4]']))
+    expect(open.json.message).toMatch(/numbered from 0 in file order/)
+    const garbage = await upload(as.analyst, new Uint8Array(Array.from({ length: 2048 }, (_, i) => (i * 7919 + 3) % 256)), 'garbage.obj', { density: '1000' })
+    expect(garbage.status).toBe(422)
+    expect(garbage.json.message).not.toMatch(/readMesh|readObj|readPly|validateMesh/)
+    expect(garbage.json.data.issues).toEqual([])
+    const header = await upload(as.analyst, new TextEncoder().encode('ply\nformat ascii 1.0\nelement vertex eight\nproperty float x\nend_header\n0 0 0\n'), 'badheader.ply', { density: '1000' })
+    expect(header.status).toBe(422)
+    expect(header.json.message).toBe('element vertex count "eight" is not a whole number (header line 3)')
+  })
+
+  it('warns when a spin makes loose material lift off, on the fraction of the surface the closed form gives', async () => {
+    // Homogeneous sphere, spin axis through the centre: the normal component of g + centrifugal
+    // is GM/R² − ω²R sin²θ, so material lifts off where sin²θ > q = GM/(ω²R³) = (P/P_crit)², with
+    // P_crit = √(3π/(Gρ)) (strengthless-sphere breakup period, SCIENCE.md §5 [derived]). That band
+    // |cos θ| < √(1 − q) covers the area fraction √(1 − q) (sphere area is uniform in cos θ;
+    // Archimedes' hat-box theorem, common practice, no source).
+    const G = 6.6743e-11
+    const rho = 1000
+    const periodH = 2
+    const q = (periodH * 3600) ** 2 / (3 * Math.PI / (G * rho))
+    const res = await upload(as.analyst, writeObj(icosphere(4, 1)), 'fast.obj', { density: String(rho), units: 'km', spinPeriodHours: String(periodH) })
+    expect(res.status, res.text).toBe(201)
+    const done = await waitForSurface(as.viewer, res.json.id, 120_000)
+    expect(done.properties.slopeDeg.max).toBeGreaterThan(90)
+    // icosphere facets and 400 evaluation points: a few per cent of the band edge (resolution, not tolerance loosening)
+    expect(Math.abs(done.properties.liftOff.areaFraction - Math.sqrt(1 - q))).toBeLessThan(0.04)
+    expect(done.surfaceCautions.map((c: { code: string }) => c.code)).toEqual(['surface-lift-off'])
+    expect(done.surfaceCautions[0].message).toMatch(/lift off/)
+    // Without a spin nothing lifts off and there is no caution.
+    const still = await as.analyst.patch(`/api/lobes/${res.json.id}`, { spinPeriodHours: null })
+    expect(still.json.surfaceCautions).toEqual([])
+    const calm = await waitForSurface(as.viewer, res.json.id, 120_000)
+    expect(calm.properties.liftOff).toBeNull()
+    expect(calm.surfaceCautions).toEqual([])
+  })
+
+  it('answers bad record addresses with the not-found page (404, our wording, a way back)', async () => {
+    for (const path of ['/lobes/abc', '/studies/abc', '/objects/0', '/objects/-3/edit', '/studies/1.5', '/lobes/99999']) {
+      // (an analyst: /objects/:id/edit needs that role, and the role check comes first)
+      const res = await as.analyst.get(path, { accept: 'text/html' })
+      expect(res.status, path).toBe(404)
+      expect(res.text, path).toContain('Not found')
+      expect(res.text, path).not.toMatch(/Invalid route parameter|Too small/)
+    }
+    const ok = await as.viewer.get('/studies')
+    expect(ok.status).toBe(200)
+  })
+
   it('lets only analysts and admins upload (role checked before the body), and only the owner or an admin delete', async () => {
     expect((await upload(as.viewer, writeObj(boxMesh(1, 1, 1)), 'v.obj', { density: '1000' })).status).toBe(403)
     expect((await upload(new Agent(server.url), writeObj(boxMesh(1, 1, 1)), 'anon.obj', { density: '1000' })).status).toBe(401)

@@ -6,7 +6,7 @@ import { writeObj, writePly } from '../../../shared/geometry/writers'
 import { readMesh } from '../../../shared/geometry/readers'
 import { validateMesh } from '../../../shared/geometry/validate'
 import { massProperties } from '../../../shared/geometry/mass'
-import { GeometryError } from '../../../shared/geometry/types'
+import { FILE_FACE_NUMBERING, GeometryError } from '../../../shared/geometry/types'
 import { close, closeMat, closeVec } from './helpers'
 
 const enc = (s: string) => new TextEncoder().encode(s)
@@ -142,6 +142,51 @@ describe('bad input → GeometryError codes', () => {
     expect(code(() => readMesh(enc('ply\nformat binary_little_endian 1.0\nelement vertex 4000000000\nproperty double x\nproperty double y\nproperty double z\nelement face 4000000000\nproperty list uchar int vertex_indices\nend_header\nxx'), { maxVertices: 1e10, maxFaces: 1e10 }))).toBe('truncated')
     expect(performance.now() - t).toBeLessThan(50)
     expect(process.memoryUsage().rss - rss).toBeLessThan(50e6)
+  })
+})
+
+describe('messages name faces as the file numbers them (triangle → file face map)', () => {
+  const fail = (f: () => unknown): GeometryError => {
+    try { f() } catch (e) { if (e instanceof GeometryError) return e; throw e }
+    throw new Error('no error')
+  }
+  // Unit cube as six quads; faces in file order: 0 bottom, 1 top, 2 y=0, 3 y=1, 4 x=0, 5 x=1.
+  const V = 'v 0 0 0\nv 1 0 0\nv 0 1 0\nv 1 1 0\nv 0 0 1\nv 1 0 1\nv 0 1 1\nv 1 1 1\n'
+  const Q = ['1 3 4 2', '5 6 8 7', '1 2 6 5', '3 7 8 4', '1 5 7 3', '2 4 8 6']
+  it('fan-triangulated polygons keep their file face number (OBJ and PLY, typed array)', () => {
+    const r = readMesh(enc(V + Q.map(q => `f ${q}\n`).join('')))
+    expect(r.mesh.sourceFace).toBeInstanceOf(Uint32Array)
+    expect(Array.from(r.mesh.sourceFace!)).toEqual([0, 0, 1, 1, 2, 2, 3, 3, 4, 4, 5, 5])
+    const ply = enc(`ply\nformat ascii 1.0\nelement vertex 8\nproperty float x\nproperty float y\nproperty float z\nelement face 3\nproperty list uchar int vertex_indices\nend_header\n${V.replace(/v /g, '')}3 0 2 3\n4 4 5 7 6\n5 0 1 5 4 2\n`)
+    expect(Array.from(readMesh(ply).mesh.sourceFace!)).toEqual([0, 1, 1, 2, 2, 2])
+    const bin = readMesh(writePly(boxMesh(1, 1, 1), 'binary_little_endian'))
+    expect(Array.from(bin.mesh.sourceFace!)).toEqual(Array.from({ length: 12 }, (_, i) => i))
+  })
+  it('an open box of five quads is reported by its four side faces, not by triangle numbers', () => {
+    // Without the top face (file face 1) the boundary is the top rim, whose four edges belong to
+    // the four side quads; in the file without the top they are faces 1, 2, 3, 4 (geometry of a
+    // cube, common practice, no source).
+    const file = V + Q.filter((_, i) => i !== 1).map(q => `f ${q}\n`).join('')
+    const e = fail(() => validateMesh(readMesh(enc(file)).mesh))
+    expect(e.code).toBe('open-mesh')
+    expect(new Set(e.issues.map(i => i.path))).toEqual(new Set(['faces[1]', 'faces[2]', 'faces[3]', 'faces[4]']))
+    expect(e.message).toContain(FILE_FACE_NUMBERING)
+    expect(e.message).toMatch(/first faces: [1-4], [1-4], [1-4], [1-4] \(/)
+  })
+  it('an out-of-range index names the file face (PLY quad)', () => {
+    const ply = enc(`ply\nformat ascii 1.0\nelement vertex 4\nproperty float x\nproperty float y\nproperty float z\nelement face 2\nproperty list uchar int vertex_indices\nend_header\n0 0 0\n1 0 0\n0 1 0\n0 0 1\n3 0 1 2\n4 0 1 3 9\n`)
+    const e = fail(() => readMesh(ply))
+    expect(e.code).toBe('index-out-of-range')
+    expect(e.issues.map(i => i.path)).toEqual(['faces[1]'])
+    expect(e.message).toContain(FILE_FACE_NUMBERING)
+  })
+  it('PLY header errors say what is wrong with which word', () => {
+    const e = fail(() => readMesh(enc('ply\nformat ascii 1.0\nelement vertex eight\nproperty float x\nend_header\n0 0 0\n')))
+    expect(e.code).toBe('bad-header')
+    expect(e.message).toBe('readPly: element vertex count "eight" is not a whole number (header line 3)')
+    expect(fail(() => readMesh(enc('ply\nformat ascii 1.0\nelement vertex 3\nproperty flot x\nend_header\n'))).message).toMatch(/unknown property type "flot"/)
+    // user text is reduced to letters, digits, _ and - before it is quoted
+    expect(fail(() => readMesh(enc('ply\nformat ascii 1.0\nelement vertex <b>\nend_header\n'))).message).toMatch(/count "\?b\?" is not/)
   })
 })
 

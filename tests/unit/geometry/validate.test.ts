@@ -77,6 +77,19 @@ describe('validateMesh rejects with codes, counts and face indices', () => {
     const e = err(b)
     expect(e.code).toBe('index-out-of-range')
     expect(e.issues[0]!.path).toBe('faces[5]')
+    expect(e.message).toMatch(/first triangles: 5 \(triangles numbered from 0\)/)
+  })
+  it('with a triangle → file face map, faces are named by the file numbering', () => {
+    const b = boxMesh(1, 1, 1)
+    // twelve triangles from six quads: triangles 2k, 2k+1 come from file face k
+    const sourceFace = Uint32Array.from({ length: 12 }, (_, t) => t >> 1)
+    const e = err({ positions: b.positions, indices: b.indices.slice(0, 33), sourceFace: sourceFace.slice(0, 11) })
+    expect(e.code).toBe('open-mesh')
+    expect(e.message).toMatch(/first faces: .*face 0\)/)
+    expect(e.issues.every(i => /^faces\[[0-5]\]$/.test(i.path))).toBe(true)
+    // a map that does not describe the given triangles (wrong length) is ignored
+    const e2 = err({ positions: b.positions, indices: b.indices.slice(0, 33), sourceFace })
+    expect(e2.message).toMatch(/first triangles/)
   })
   it('open-mesh', () => {
     const b = boxMesh(1, 1, 1)
