@@ -103,6 +103,49 @@ function unitIcosphere(n: number): TriMesh {
 }
 
 /**
+ * One closed body made of two overlapping spheres: radius r1 centred at the origin and r2 centred
+ * at (d, 0, 0), |r1 − r2| < d < r1 + r2. A surface of revolution about x whose profile follows
+ * sphere 1 from x = −r1 to the intersection circle at x_i = (d² + r1² − r2²)/(2d), then sphere 2
+ * to x = d + r2, with `around` segments per ring and arc steps of about the same angle; the
+ * intersection circle is a ring of vertices. Inscribed, so the volume is low by about
+ * (2π/around)²/6 relative. (A boolean union of two icospheres leaves zero-area slivers along
+ * the intersection curve instead.)
+ * @throws GeometryError 'bad-argument' when the spheres do not overlap or around < 3.
+ */
+export function twoSphereBody(r1: number, r2: number, d: number, around: number): TriMesh {
+  if (!(r1 > 0 && r2 > 0 && d > Math.abs(r1 - r2) && d < r1 + r2) || !Number.isInteger(around) || around < 3) {
+    throw new GeometryError('bad-argument', 'twoSphereBody needs overlapping spheres (|r1 − r2| < d < r1 + r2) and at least 3 segments')
+  }
+  const xi = (d * d + r1 * r1 - r2 * r2) / (2 * d)
+  const step = 2 * Math.PI / around
+  const prof: [number, number][] = []
+  const t1 = Math.acos(xi / r1)
+  const t2 = Math.acos((xi - d) / r2)
+  const n1 = Math.ceil((Math.PI - t1) / step)
+  const n2 = Math.ceil(t2 / step)
+  for (let k = 1; k <= n1; k++) {
+    const t = Math.PI - (Math.PI - t1) * k / n1
+    prof.push([r1 * Math.cos(t), r1 * Math.sin(t)])
+  }
+  for (let k = 1; k < n2; k++) {
+    const t = t2 - t2 * k / n2
+    prof.push([d + r2 * Math.cos(t), r2 * Math.sin(t)])
+  }
+  const pos: number[] = [-r1, 0, 0]
+  for (const [x, r] of prof) for (let j = 0; j < around; j++) pos.push(x, r * Math.cos(j * step), r * Math.sin(j * step))
+  pos.push(d + r2, 0, 0)
+  const last = pos.length / 3 - 1
+  const ring = (k: number, j: number) => 1 + k * around + (j % around)
+  const idx: number[] = []
+  for (let j = 0; j < around; j++) {
+    idx.push(0, ring(0, j + 1), ring(0, j))
+    for (let k = 0; k + 1 < prof.length; k++) idx.push(ring(k, j), ring(k, j + 1), ring(k + 1, j + 1), ring(k, j), ring(k + 1, j + 1), ring(k + 1, j))
+    idx.push(last, ring(prof.length - 1, j), ring(prof.length - 1, j + 1))
+  }
+  return { positions: new Float64Array(pos), indices: new Uint32Array(idx) }
+}
+
+/**
  * Icosphere of the given radius (m) centred at `center` (default origin): 20·4^subdivisions faces
  * (subdivisions 8 → 1 310 720 faces), 10·4^subdivisions + 2 vertices, all on the sphere (the mesh
  * is inscribed, so its volume is slightly below 4πR³/3, by O(h²)).

@@ -1,6 +1,5 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
-import { writePly } from '../../shared/geometry'
-import type { TriMesh } from '../../shared/geometry'
+import { twoSphereBody, writePly } from '../../shared/geometry'
 import { Agent } from './support/http'
 import { uploadLobe } from './support/lobes'
 import { startServer, type RunningServer } from './support/server'
@@ -16,32 +15,7 @@ const KM3 = 1e9
 // Cut at x_i: the −x part is sphere 1 minus its cap beyond x_i; the +x part is sphere 2 minus its cap below x_i.
 const V_NEG = (ball(R1) - cap(R1, R1 - XI)) * KM3
 const V_POS = (ball(R2) - cap(R2, R2 - (D - XI))) * KM3
-/**
- * The union of the two spheres as one closed mesh: a surface of revolution about x whose profile is
- * sphere 1's arc from x = −R1 to the intersection circle, then sphere 2's arc to x = d + R2, with
- * `around` segments per ring and arc steps of about the same angle. (A manifold-3d union of two
- * icospheres carries zero-area slivers along the intersection curve, which upload validation refuses.)
- */
-function twoSphereUnion(around: number): TriMesh {
-  const step = 2 * Math.PI / around
-  const prof: [number, number][] = []
-  const t1 = Math.acos(XI / R1), t2 = Math.acos((XI - D) / R2)
-  const n1 = Math.ceil((Math.PI - t1) / step), n2 = Math.ceil(t2 / step)
-  for (let k = 1; k <= n1; k++) { const t = Math.PI - (Math.PI - t1) * k / n1; prof.push([R1 * Math.cos(t), R1 * Math.sin(t)]) }
-  for (let k = 1; k < n2; k++) { const t = t2 - t2 * k / n2; prof.push([D + R2 * Math.cos(t), R2 * Math.sin(t)]) }
-  const pos: number[] = [-R1, 0, 0]
-  for (const [x, r] of prof) for (let j = 0; j < around; j++) pos.push(x, r * Math.cos(j * step), r * Math.sin(j * step))
-  pos.push(D + R2, 0, 0)
-  const last = pos.length / 3 - 1
-  const ring = (k: number, j: number) => 1 + k * around + (j % around)
-  const idx: number[] = []
-  for (let j = 0; j < around; j++) {
-    idx.push(0, ring(0, j + 1), ring(0, j))
-    for (let k = 0; k + 1 < prof.length; k++) idx.push(ring(k, j), ring(k, j + 1), ring(k + 1, j + 1), ring(k, j), ring(k + 1, j + 1), ring(k + 1, j))
-    idx.push(last, ring(prof.length - 1, j), ring(prof.length - 1, j + 1))
-  }
-  return { positions: new Float64Array(pos), indices: new Uint32Array(idx) }
-}
+const twoSphereUnion = (around: number) => twoSphereBody(R1, R2, D, around)
 // Inscribed polygons: the volume is low by about (2π/around)²/6 around and along the profile (7e-4 at 96).
 const TOL = 3e-3
 

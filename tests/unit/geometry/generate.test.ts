@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest'
-import { boxMesh, ellipsoidMesh, icosphere, mergeMeshes, perturbedEllipsoid, transformMesh } from '../../../shared/geometry/generate'
+import { boxMesh, ellipsoidMesh, icosphere, mergeMeshes, perturbedEllipsoid, transformMesh, twoSphereBody } from '../../../shared/geometry/generate'
 import { validateMesh } from '../../../shared/geometry/validate'
 import { massProperties } from '../../../shared/geometry/mass'
 import { GeometryError } from '../../../shared/geometry/types'
@@ -21,6 +21,28 @@ describe('generators', () => {
   it('is deterministic (same arguments → identical bytes)', () => {
     expect(perturbedEllipsoid(3, 2, 1, 3, 42, 0.2).positions).toEqual(perturbedEllipsoid(3, 2, 1, 3, 42, 0.2).positions)
     expect(perturbedEllipsoid(3, 2, 1, 3, 42, 0.2).positions).not.toEqual(perturbedEllipsoid(3, 2, 1, 3, 43, 0.2).positions)
+  })
+  it('two-sphere body: closed, outward, one component; volume → V1 + V2 − lens as it is refined', () => {
+    // Lens of two spheres at distance d: V = π(R1 + R2 − d)²(d² + 2d(R1 + R2) − 3(R1 − R2)²)/(12d)
+    // (Weisstein, MathWorld "Sphere-Sphere Intersection").
+    const [r1, r2, d] = [1, 0.6, 1.4]
+    const lens = Math.PI * (r1 + r2 - d) ** 2 * (d * d + 2 * d * (r1 + r2) - 3 * (r1 - r2) ** 2) / (12 * d)
+    const exact = (4 / 3) * Math.PI * (r1 ** 3 + r2 ** 3) - lens
+    let lastError = Infinity
+    for (const around of [24, 48, 96]) {
+      const { report } = validateMesh(twoSphereBody(r1, r2, d, around))
+      expect(report.components).toBe(1)
+      expect(report.flippedFaces).toBe(0)
+      expect(report.invertedOrientation).toBe(false)
+      const error = (exact - report.volume) / exact
+      // Inscribed: low by about (2π/around)²/6 per direction (second-order chord error), with
+      // coarser steps near the poles and the neck ring: allow three times that.
+      expect(error).toBeGreaterThan(0)
+      expect(error).toBeLessThan(3 * (2 * Math.PI / around) ** 2 / 6)
+      expect(error).toBeLessThan(lastError / 3)
+      lastError = error
+    }
+    expect(() => twoSphereBody(1, 0.6, 2, 24)).toThrow(GeometryError)
   })
   it('box: 12 outward triangles, volume lx·ly·lz', () => {
     const b = boxMesh(1, 2, 3, [5, 6, 7])

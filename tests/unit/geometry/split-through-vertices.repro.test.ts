@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest'
 import { splitMeshByPlane } from '../../../shared/geometry/booleans'
 import { validateMesh } from '../../../shared/geometry/validate'
-import type { TriMesh } from '../../../shared/geometry/types'
+import { twoSphereBody } from '../../../shared/geometry/generate'
 
 // Repro: a cutting plane through a ring of mesh vertices left float32 near-duplicate vertices and a
 // zero-area needle face on the cut, so the parts failed upload validation ('degenerate-face':
@@ -11,26 +11,7 @@ import type { TriMesh } from '../../../shared/geometry/types'
 const R1 = 1, R2 = 0.6, D = 1.4
 // Intersection plane x_i = (d² + R1² − R2²)/(2d) (Weisstein, MathWorld "Sphere-Sphere Intersection").
 const XI = (D * D + R1 * R1 - R2 * R2) / (2 * D)
-function twoSphereUnion(around: number): TriMesh {
-  const step = 2 * Math.PI / around
-  const prof: [number, number][] = []
-  const t1 = Math.acos(XI / R1), t2 = Math.acos((XI - D) / R2)
-  const n1 = Math.ceil((Math.PI - t1) / step), n2 = Math.ceil(t2 / step)
-  for (let k = 1; k <= n1; k++) { const t = Math.PI - (Math.PI - t1) * k / n1; prof.push([R1 * Math.cos(t), R1 * Math.sin(t)]) }
-  for (let k = 1; k < n2; k++) { const t = t2 - t2 * k / n2; prof.push([D + R2 * Math.cos(t), R2 * Math.sin(t)]) }
-  const pos: number[] = [-R1, 0, 0]
-  for (const [x, r] of prof) for (let j = 0; j < around; j++) pos.push(x, r * Math.cos(j * step), r * Math.sin(j * step))
-  pos.push(D + R2, 0, 0)
-  const last = pos.length / 3 - 1
-  const ring = (k: number, j: number) => 1 + k * around + (j % around)
-  const idx: number[] = []
-  for (let j = 0; j < around; j++) {
-    idx.push(0, ring(0, j + 1), ring(0, j))
-    for (let k = 0; k + 1 < prof.length; k++) idx.push(ring(k, j), ring(k, j + 1), ring(k + 1, j + 1), ring(k, j), ring(k + 1, j + 1), ring(k + 1, j))
-    idx.push(last, ring(prof.length - 1, j), ring(prof.length - 1, j + 1))
-  }
-  return { positions: new Float64Array(pos), indices: new Uint32Array(idx) }
-}
+const twoSphereUnion = (around: number) => twoSphereBody(R1, R2, D, around)
 
 describe('splitMeshByPlane through a ring of vertices', () => {
   it('gives two parts that validate, with the volumes it reports', async () => {
