@@ -42,4 +42,22 @@ describe('restarts keep data; migrations run once', () => {
     expect(res.status).not.toBe(0)
     expect(res.stdout + res.stderr).toMatch(/NUXT_SESSION_PASSWORD is not set/)
   })
+
+  it('stops with a clear message when its port is taken, instead of running on unreachable', async () => {
+    const { spawn } = await import('node:child_process')
+    const child = spawn(process.execPath, ['.output/server/index.mjs'], {
+      env: { ...server.env, PATH: process.env.PATH ?? '', PORT: String(server.port), DATABASE_URL: `file:${server.dataDir}/taken.db`, UPLOADS_DIR: `${server.dataDir}/taken-uploads` },
+      stdio: ['ignore', 'pipe', 'pipe'],
+    })
+    let output = ''
+    child.stdout!.on('data', (d: Buffer) => { output += d })
+    child.stderr!.on('data', (d: Buffer) => { output += d })
+    const code = await new Promise<number | null>((resolve) => {
+      const timer = setTimeout(() => { child.kill('SIGKILL'); resolve(null) }, 20_000)
+      child.once('exit', (c) => { clearTimeout(timer); resolve(c) })
+    })
+    expect(code, output).toBe(1)
+    expect(output).toMatch(/cannot listen on 127\.0\.0\.1:\d+ \(EADDRINUSE\)/)
+    expect((await fetch(`${server.url}/api/health`)).ok).toBe(true)
+  })
 })
