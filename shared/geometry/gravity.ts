@@ -30,7 +30,7 @@ export interface PolyhedronModel {
   edges: Uint32Array
   /** Edge lengths, m. */
   edgeLengths: Float64Array
-  /** E_e dyads, 9 per edge, rows first. */
+  /** E_e dyads (symmetric), 6 per edge: xx, xy, xz, yy, yz, zz. */
   edgeDyads: Float64Array
   /** Edges skipped because their two faces are coplanar (E_e = 0). */
   coplanarEdges: number
@@ -73,7 +73,7 @@ export function preparePolyhedron(mesh: TriMesh): PolyhedronModel {
   const ne = (3 * nf) / 2
   const edges = new Uint32Array(2 * ne)
   const lens = new Float64Array(ne)
-  const dy = new Float64Array(9 * ne)
+  const dy = new Float64Array(6 * ne)
   let k = 0, coplanar = 0
   for (let h = 0; h < 3 * nf; h++) {
     const t = E.twin[h]!
@@ -90,17 +90,23 @@ export function preparePolyhedron(mesh: TriMesh): PolyhedronModel {
     // edge normals: in face A the edge runs i→j (CCW), outward normal (e × n_A)/|e|; in face B it runs j→i
     const pax = (ey * naz - ez * nay) / len, pay = (ez * nax - ex * naz) / len, paz = (ex * nay - ey * nax) / len
     const pbx = -(ey * nbz - ez * nby) / len, pby = -(ez * nbx - ex * nbz) / len, pbz = -(ex * nby - ey * nbx) / len
-    const o = 9 * k
-    dy[o] = nax * pax + nbx * pbx; dy[o + 1] = nax * pay + nbx * pby; dy[o + 2] = nax * paz + nbx * pbz
-    dy[o + 3] = nay * pax + nby * pbx; dy[o + 4] = nay * pay + nby * pby; dy[o + 5] = nay * paz + nby * pbz
-    dy[o + 6] = naz * pax + nbz * pbx; dy[o + 7] = naz * pay + nbz * pby; dy[o + 8] = naz * paz + nbz * pbz
+    // E_e = n_A p_Aᵀ + n_B p_Bᵀ is symmetric (Werner & Scheeres 1997): keep xx xy xz yy yz zz, the
+    // off-diagonal terms as the mean of the two computed ones (they differ by rounding only);
+    // 6 numbers instead of 9 per edge make the kernel's edge pass read a third less memory
+    const o = 6 * k
+    dy[o] = nax * pax + nbx * pbx
+    dy[o + 1] = ((nax * pay + nbx * pby) + (nay * pax + nby * pbx)) / 2
+    dy[o + 2] = ((nax * paz + nbx * pbz) + (naz * pax + nbz * pbx)) / 2
+    dy[o + 3] = nay * pay + nby * pby
+    dy[o + 4] = ((nay * paz + nby * pbz) + (naz * pay + nbz * pby)) / 2
+    dy[o + 5] = naz * paz + nbz * pbz
     edges[2 * k] = i; edges[2 * k + 1] = j
     lens[k] = len
     k++
   }
   return {
     origin, vertices: V, faces: I.slice(), faceNormals: N,
-    edges: edges.slice(0, 2 * k), edgeLengths: lens.slice(0, k), edgeDyads: dy.slice(0, 9 * k),
+    edges: edges.slice(0, 2 * k), edgeLengths: lens.slice(0, k), edgeDyads: dy.slice(0, 6 * k),
     coplanarEdges: coplanar, scratch: new Float64Array(nv),
   }
 }
@@ -120,10 +126,11 @@ function evalAt(m: PolyhedronModel, px: number, py: number, pz: number, out: Flo
     const s = R[i]! + R[j]!, len = Ls[e]!
     const Le = Math.log((s + len) / (s - len))
     const rx = V[3 * i]! - px, ry = V[3 * i + 1]! - py, rz = V[3 * i + 2]! - pz
-    const o = 9 * e
-    const ex = D[o]! * rx + D[o + 1]! * ry + D[o + 2]! * rz
-    const ey = D[o + 3]! * rx + D[o + 4]! * ry + D[o + 5]! * rz
-    const ez = D[o + 6]! * rx + D[o + 7]! * ry + D[o + 8]! * rz
+    const o = 6 * e
+    const dxy = D[o + 1]!, dxz = D[o + 2]!, dyz = D[o + 4]!
+    const ex = D[o]! * rx + dxy * ry + dxz * rz
+    const ey = dxy * rx + D[o + 3]! * ry + dyz * rz
+    const ez = dxz * rx + dyz * ry + D[o + 5]! * rz
     U += Le * (rx * ex + ry * ey + rz * ez)
     gx += Le * ex; gy += Le * ey; gz += Le * ez
   }

@@ -151,11 +151,22 @@ export const MONOMIALS_34: [number, number, number][] = [[3, 0, 0], [2, 1, 0], [
  * degree n into Σ_faces 3V_t/(n+3) · (triangle mean), the mean by Dunavant's 6-point rule.
  */
 export function polyhedronMoments34(mesh: TriMesh, origin: Vec3): Float64Array {
-  const P = mesh.positions
-  const I = mesh.indices
-  const [ox, oy, oz] = origin
+  const acc = new Float64Array(25)
+  const n = mesh.indices.length
+  // Blocks of faces: the block function becomes hot after a few calls and is compiled with its
+  // 25 sums as unboxed float64 locals. One long loop would first run as on-stack-replaced code,
+  // whose sums stay boxed (several times slower on the first call, which is the one that counts).
+  for (let f = 0; f < n; f += MOMENT_BLOCK) moments34Block(mesh.positions, mesh.indices, origin[0], origin[1], origin[2], f, Math.min(n, f + MOMENT_BLOCK), acc)
+  return acc
+}
+
+/** Faces per call of `moments34Block` (× 3 indices). */
+const MOMENT_BLOCK = 3 * 2048
+
+/** Adds the degree-3 and 4 moments of the faces with indices [from, to) to acc (MONOMIALS_34 order). */
+function moments34Block(P: Float64Array, I: Uint32Array, ox: number, oy: number, oz: number, from: number, to: number, acc: Float64Array): void {
   let m0 = 0, m1 = 0, m2 = 0, m3 = 0, m4 = 0, m5 = 0, m6 = 0, m7 = 0, m8 = 0, m9 = 0, m10 = 0, m11 = 0, m12 = 0, m13 = 0, m14 = 0, m15 = 0, m16 = 0, m17 = 0, m18 = 0, m19 = 0, m20 = 0, m21 = 0, m22 = 0, m23 = 0, m24 = 0
-  for (let f = 0; f < I.length; f += 3) {
+  for (let f = from; f < to; f += 3) {
     const a = 3 * I[f]!, b = 3 * I[f + 1]!, c = 3 * I[f + 2]!
     const ax = P[a]! - ox, ay = P[a + 1]! - oy, az = P[a + 2]! - oz
     const bx = P[b]! - ox, by = P[b + 1]! - oy, bz = P[b + 2]! - oz
@@ -165,37 +176,24 @@ export function polyhedronMoments34(mesh: TriMesh, origin: Vec3): Float64Array {
       const o = 3 * q
       const w0 = QF[o]!, w1 = QF[o + 1]!, w2 = QF[o + 2]!
       const x = w0 * ax + w1 * bx + w2 * cx, y = w0 * ay + w1 * by + w2 * cy, z = w0 * az + w1 * bz + w2 * cz
-      let w = QW[q]! * v3 / 6
-      m0 += w * x * x * x
-      m1 += w * x * x * y
-      m2 += w * x * x * z
-      m3 += w * x * y * y
-      m4 += w * x * y * z
-      m5 += w * x * z * z
-      m6 += w * y * y * y
-      m7 += w * y * y * z
-      m8 += w * y * z * z
-      m9 += w * z * z * z
-      w = w * 6 / 7
-      m10 += w * x * x * x * x
-      m11 += w * x * x * x * y
-      m12 += w * x * x * x * z
-      m13 += w * x * x * y * y
-      m14 += w * x * x * y * z
-      m15 += w * x * x * z * z
-      m16 += w * x * y * y * y
-      m17 += w * x * y * y * z
-      m18 += w * x * y * z * z
-      m19 += w * x * z * z * z
-      m20 += w * y * y * y * y
-      m21 += w * y * y * y * z
-      m22 += w * y * y * z * z
-      m23 += w * y * z * z * z
-      m24 += w * z * z * z * z
+      // cubic terms take 1/(3+3) of 3V_t, quartic 1/(4+3); pairwise products are shared
+      const w = QWF[q]! * v3 / 6
+      const wx = w * x, wy = w * y, wz = w * z
+      const xx = x * x, xy = x * y, xz = x * z, yy = y * y, yz = y * z, zz = z * z
+      m0 += wx * xx; m1 += wx * xy; m2 += wx * xz; m3 += wx * yy; m4 += wx * yz
+      m5 += wx * zz; m6 += wy * yy; m7 += wy * yz; m8 += wy * zz; m9 += wz * zz
+      const v = w * 6 / 7
+      const vxx = v * xx, vxy = v * xy, vxz = v * xz, vyy = v * yy, vyz = v * yz, vzz = v * zz
+      m10 += vxx * xx; m11 += vxx * xy; m12 += vxx * xz; m13 += vxx * yy; m14 += vxx * yz
+      m15 += vxx * zz; m16 += vxy * yy; m17 += vxy * yz; m18 += vxy * zz; m19 += vxz * zz
+      m20 += vyy * yy; m21 += vyy * yz; m22 += vyy * zz; m23 += vyz * zz; m24 += vzz * zz
     }
   }
-  return Float64Array.from([m0, m1, m2, m3, m4, m5, m6, m7, m8, m9, m10, m11, m12, m13, m14, m15, m16, m17, m18, m19, m20, m21, m22, m23, m24])
+  const m = [m0, m1, m2, m3, m4, m5, m6, m7, m8, m9, m10, m11, m12, m13, m14, m15, m16, m17, m18, m19, m20, m21, m22, m23, m24]
+  for (let k = 0; k < 25; k++) acc[k] = acc[k]! + m[k]!
 }
+
+const QWF = Float64Array.from(QW)
 
 // ---- polynomials of degree ≤ 4 in (x, y, z): coefficient arrays over the 35 monomials ----
 const MON: [number, number, number][] = []

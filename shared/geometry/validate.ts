@@ -89,28 +89,24 @@ export function validateMesh(mesh: TriMesh, opts: ValidateOptions = {}): { mesh:
   const numbering = src ? ` (${FILE_FACE_NUMBERING})` : ' (triangles numbered from 0)'
 
   // 1. finite coordinates, bounding box
-  let minx = Infinity, miny = Infinity, minz = Infinity, maxx = -Infinity, maxy = -Infinity, maxz = -Infinity
+  const box = new Float64Array([Infinity, Infinity, Infinity, -Infinity, -Infinity, -Infinity])
   const badV: number[] = []
   let nBadV = 0
-  for (let v = 0; v < nv0; v++) {
-    const x = P0[3 * v]!, y = P0[3 * v + 1]!, z = P0[3 * v + 2]!
-    if (!Number.isFinite(x) || !Number.isFinite(y) || !Number.isFinite(z)) {
-      nBadV++
-      if (badV.length < MAX_LISTED) badV.push(v)
-      continue
-    }
-    if (x < minx) minx = x; if (x > maxx) maxx = x
-    if (y < miny) miny = y; if (y > maxy) maxy = y
-    if (z < minz) minz = z; if (z > maxz) maxz = z
-  }
+  for (let v = 0; v < nv0; v += BOX_BLOCK) nBadV += boundsBlock(P0, v, Math.min(nv0, v + BOX_BLOCK), box, badV)
+  const minx = box[0]!, miny = box[1]!, minz = box[2]!, maxx = box[3]!, maxy = box[4]!, maxz = box[5]!
   if (nBadV > 0) throw new GeometryError('non-finite', `validateMesh: ${nBadV} vertices have non-finite coordinates; first: ${badV.join(', ')} (vertices numbered from 0 in file order)`, issuesFor(badV, 'non-finite coordinate', 'vertices'))
 
   // 2. indices in range
   {
     let n = 0
     const first: number[] = []
-    for (let i = 0; i < I0.length; i++) {
-      if (I0[i]! >= nv0) { n++; const f = (i / 3) | 0; if (first.length < MAX_LISTED && first[first.length - 1] !== f) first.push(f) }
+    // one cheap pass for the largest index; the detailed pass only when something is out of range
+    let maxIndex = 0
+    for (let i = 0; i < I0.length; i++) if (I0[i]! > maxIndex) maxIndex = I0[i]!
+    if (maxIndex >= nv0) {
+      for (let i = 0; i < I0.length; i++) {
+        if (I0[i]! >= nv0) { n++; const f = (i / 3) | 0; if (first.length < MAX_LISTED && first[first.length - 1] !== f) first.push(f) }
+      }
     }
     const ff = faceList(first)
     if (n > 0) throw new GeometryError('index-out-of-range', `validateMesh: ${n} vertex indices out of range (vertex count ${nv0}); first ${FACES}: ${ff.join(', ')}${numbering}`, issuesFor(ff, 'vertex index out of range'))
@@ -157,16 +153,15 @@ export function validateMesh(mesh: TriMesh, opts: ValidateOptions = {}): { mesh:
   if (nf < nf0) { I = I.slice(0, 3 * nf); faceOrigin = faceOrigin.slice(0, nf) }
 
   // 5. drop unreferenced vertices, build compact positions
-  const used = new Int32Array(nvWeld).fill(-1)
-  let nv = 0
-  for (let i = 0; i < I.length; i++) { const v = I[i]!; if (used[v] === -1) used[v] = 0 }
-  for (let v = 0; v < nvWeld; v++) if (used[v] === 0) used[v] = nv++
-  // renumbering keeps the vertex order, so with no unreferenced vertices it is the identity
-  if (nv < nvWeld) for (let i = 0; i < I.length; i++) I[i] = used[I[i]!]!
-  const P = new Float64Array(nv * 3)
-  for (let v = 0; v < nvWeld; v++) {
-    const u = used[v]!
-    if (u >= 0) { const r = 3 * reps[v]!; P[3 * u] = P0[r]!; P[3 * u + 1] = P0[r + 1]!; P[3 * u + 2] = P0[r + 2]! }
+  const { used, count: nv } = renumberUsed(I, nvWeld)
+  let P: Float64Array
+  if (!doWeld && nv === nvWeld) P = P0.slice() // nothing welded or dropped: a plain copy
+  else {
+    P = new Float64Array(nv * 3)
+    for (let v = 0; v < nvWeld; v++) {
+      const u = used[v]!
+      if (u >= 0) { const r = 3 * reps[v]!; P[3 * u] = P0[r]!; P[3 * u + 1] = P0[r + 1]!; P[3 * u + 2] = P0[r + 2]! }
+    }
   }
   const unreferenced = nvWeld - nv
   if (weldedVertices > 0) warnings.push({ code: 'welded-vertices', message: `${weldedVertices} duplicate vertices welded (tolerance ${tol.toExponential(3)} m)` })
@@ -323,6 +318,46 @@ export function validateMesh(mesh: TriMesh, opts: ValidateOptions = {}): { mesh:
   return { mesh: { positions: P, indices: I }, report }
 }
 
+/** Vertices per call of `boundsBlock`. */
+const BOX_BLOCK = 8192
+
+/**
+ * Widens box [minx, miny, minz, maxx, maxy, maxz] (m) by the finite vertices from..to−1; returns
+ * how many have a non-finite coordinate and lists the first few in `bad`. Called per block so that
+ * V8 compiles it with unboxed float64 values before the bulk of the work.
+ */
+function boundsBlock(P: Float64Array, from: number, to: number, box: Float64Array, bad: number[]): number {
+  let minx = box[0]!, miny = box[1]!, minz = box[2]!, maxx = box[3]!, maxy = box[4]!, maxz = box[5]!
+  let nBad = 0
+  for (let v = from; v < to; v++) {
+    const x = P[3 * v]!, y = P[3 * v + 1]!, z = P[3 * v + 2]!
+    if (!Number.isFinite(x) || !Number.isFinite(y) || !Number.isFinite(z)) {
+      nBad++
+      if (bad.length < MAX_LISTED) bad.push(v)
+      continue
+    }
+    if (x < minx) minx = x; if (x > maxx) maxx = x
+    if (y < miny) miny = y; if (y > maxy) maxy = y
+    if (z < minz) minz = z; if (z > maxz) maxz = z
+  }
+  box[0] = minx; box[1] = miny; box[2] = minz; box[3] = maxx; box[4] = maxy; box[5] = maxz
+  return nBad
+}
+
+/**
+ * Renumber the vertices that some face uses, keeping their order, and rewrite I in place.
+ * Returns used (old → new index, −1 when unused) and the number of used vertices.
+ */
+function renumberUsed(I: Uint32Array, nv: number): { used: Int32Array, count: number } {
+  const used = new Int32Array(nv).fill(-1)
+  for (let i = 0; i < I.length; i++) used[I[i]!] = 0
+  let count = 0
+  for (let v = 0; v < nv; v++) if (used[v] === 0) used[v] = count++
+  // renumbering keeps the vertex order, so with no unreferenced vertices it is the identity
+  if (count < nv) for (let i = 0; i < I.length; i++) I[i] = used[I[i]!]!
+  return { used, count }
+}
+
 function identityWeld(nv: number) {
   const map = new Uint32Array(nv)
   for (let v = 0; v < nv; v++) map[v] = v
@@ -435,9 +470,12 @@ export function analyseEdges(I: Uint32Array, nv: number, skipDegenerate = false)
   const boundaryFaces: number[] = [], nonManifoldFaces: number[] = []
   for (let v = 0; v < nv; v++) {
     const s0 = start[v]!, s1 = start[v + 1]!
+    // most vertices send at most one half-edge to each neighbour: then no per-edge duplicate scan
+    const distinct = distinctTargets(tgt, s0, s1)
     for (let k = s0; k < s1; k++) {
-      const b = tgt[k]!
       const h = he[k]!
+      if (twin[h] !== -1) continue // paired from the other end (common case below)
+      const b = tgt[k]!
       // common case first: exactly one opposite half-edge b→a, and a→b not duplicated (a
       // duplicate a→b would make the b→a half-edge see two opposites and take the slow path)
       let nOpp = 0, oppH = -1
@@ -448,8 +486,9 @@ export function analyseEdges(I: Uint32Array, nv: number, skipDegenerate = false)
       if (nOpp === 1) {
         // is b→a itself seeing a duplicate a→b? count a→b in our own list
         let dup = false
-        for (let k2 = s0; k2 < s1; k2++) if (k2 !== k && tgt[k2] === b) { dup = true; break }
-        if (!dup) { twin[h] = oppH; continue }
+        if (!distinct) for (let k2 = s0; k2 < s1; k2++) if (k2 !== k && tgt[k2] === b) { dup = true; break }
+        // the pair is then symmetric: b→a would find exactly this a→b, so pair both ends now
+        if (!dup) { twin[h] = oppH; twin[oppH] = h; continue }
       }
       let nSame = 0, sameH = -1, minH = h
       for (let k2 = s0; k2 < s1; k2++) {
@@ -471,6 +510,15 @@ export function analyseEdges(I: Uint32Array, nv: number, skipDegenerate = false)
     }
   }
   return { start, he, tgt, twin, sameDir, boundary, nonManifold, boundaryFaces, nonManifoldFaces }
+}
+
+/** True when tgt[s0 .. s1) holds no value twice (a vertex's out-going half-edges, degree ~6). */
+function distinctTargets(tgt: Uint32Array, s0: number, s1: number): boolean {
+  for (let k = s0 + 1; k < s1; k++) {
+    const t = tgt[k]!
+    for (let j = s0; j < k; j++) if (tgt[j] === t) return false
+  }
+  return true
 }
 
 /**
@@ -533,18 +581,20 @@ export function faceComponents(mesh: TriMesh): { label: Uint32Array, count: numb
     while (parent[v] !== v) { parent[v] = parent[parent[v]!]!; v = parent[v]! }
     return v
   }
+  // labels go by first face, so which root wins a union does not matter
   for (let i = 0; i < I.length; i += 3) {
-    const a = root(I[i]!), b = root(I[i + 1]!), c = root(I[i + 2]!)
+    const a = root(I[i]!), b = root(I[i + 1]!)
     if (a !== b) parent[b] = a
-    const c2 = root(c)
-    const a2 = root(a)
-    if (c2 !== a2) parent[c2] = a2
+    const c = root(I[i + 2]!)
+    if (c !== a) parent[c] = a
   }
+  // flatten once, so each face's label is two array reads
+  for (let v = 0; v < nv; v++) parent[v] = root(v)
   const lab = new Int32Array(nv).fill(-1)
   const label = new Uint32Array(I.length / 3)
   let count = 0
   for (let f = 0; f < label.length; f++) {
-    const r = root(I[3 * f]!)
+    const r = parent[I[3 * f]!]!
     if (lab[r] === -1) lab[r] = count++
     label[f] = lab[r]!
   }
