@@ -3,9 +3,9 @@
 export default defineNitroPlugin((nitro) => {
   // Nitro only logs a failed listen (e.g. the port is taken) and would leave a server that answers
   // nobody while its mail drop and workers run on: stop instead, saying why.
-  process.on('uncaughtException', (error: NodeJS.ErrnoException) => {
+  process.on('uncaughtException', (error: NodeJS.ErrnoException & { address?: string, port?: number }) => {
     if (error?.syscall !== 'listen') return
-    console.error(`[isthmus] cannot listen on ${error.address ?? ''}:${(error as { port?: number }).port ?? ''} (${error.code}): set PORT or HOST, or stop what uses that address.`)
+    console.error(`[isthmus] cannot listen on ${error.address ?? ''}:${error.port ?? ''} (${error.code}): set PORT or HOST, or stop what uses that address.`)
     process.exit(1)
   })
   serverReady().catch((error) => {
