@@ -132,17 +132,26 @@ export function parseNumber(b: Uint8Array, i: number, end: number): number {
   let c = b[i]!
   if (c === 45) { neg = true; i++ } else if (c === 43) i++
   // significant digits: the first 15 in `hi` (exact integer), the next ≤ 4 in `lo`
-  let hi = 0, lo = 0, nlo = 0, nd = 0, e10 = 0
-  let point = false, tooLong = false
-  for (; i < end; i++) {
+  let hi = 0, lo = 0, nlo = 0, e10 = 0
+  let tooLong = false
+  const intStart = i
+  for (; i < end; i++) { // integer part
     c = b[i]! - 48
-    if (c >= 0 && c <= 9) {
-      nd++
+    if (c < 0 || c > 9) break
+    if (hi < 1e14) hi = hi * 10 + c
+    else if (nlo < 4) { lo = lo * 10 + c; nlo++ } else tooLong = true
+  }
+  let nd = i - intStart
+  if (i < end && b[i] === 46 /* . */) {
+    const fracStart = ++i
+    for (; i < end; i++) { // fraction
+      c = b[i]! - 48
+      if (c < 0 || c > 9) break
       if (hi < 1e14) hi = hi * 10 + c
       else if (nlo < 4) { lo = lo * 10 + c; nlo++ } else tooLong = true
-      if (point) e10--
-    } else if (c === -2 /* . */ && !point) point = true
-    else break
+    }
+    nd += i - fracStart
+    e10 = fracStart - i
   }
   let ok = nd > 0 && !tooLong
   if (ok && i < end && (b[i] === 101 || b[i] === 69)) {
