@@ -58,7 +58,7 @@ async function analyse(p: AnalysePayload, progress: (f: number, stage: string) =
   const { mesh, report } = validateMesh(read.mesh)
   const t2 = performance.now()
   progress(0.6, 'mass properties')
-  const properties = massProperties(mesh, { density: p.density, referenceRadius: p.referenceRadius })
+  const properties = massProperties(mesh, { density: p.density, referenceRadius: p.referenceRadius, componentCount: report.components })
   const t3 = performance.now()
   progress(0.85, 'storing')
   await writeAtomic(p.analysisMeshPath, encodeAnalysisMesh(mesh.positions, mesh.indices))

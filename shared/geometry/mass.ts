@@ -78,9 +78,12 @@ export interface MassProperties {
  * `validateMesh` first); a negative total volume throws 'inside-out'.
  * @param opts.density kg m⁻³ (> 0)
  * @param opts.referenceRadius m, for J2, C22 and the harmonics (default: equivalentRadius)
+ * @param opts.componentCount optional: `validateMesh(...).report.components` for this very mesh
+ *   (faces joined through edges). When it is 1 the mesh is also one piece through vertices, and
+ *   the per-component pass (a union-find over the vertices) is skipped.
  * @throws GeometryError 'bad-argument', 'empty-mesh', 'inside-out'
  */
-export function massProperties(mesh: TriMesh, opts: { density: number, referenceRadius?: number }): MassProperties {
+export function massProperties(mesh: TriMesh, opts: { density: number, referenceRadius?: number, componentCount?: number }): MassProperties {
   const rho = opts.density
   if (!(rho > 0) || !Number.isFinite(rho)) throw new GeometryError('bad-argument', `massProperties: density must be a positive finite number (kg m^-3), got ${rho}`)
   if (opts.referenceRadius !== undefined && !(opts.referenceRadius > 0 && Number.isFinite(opts.referenceRadius))) throw new GeometryError('bad-argument', 'massProperties: referenceRadius must be positive')
@@ -176,7 +179,8 @@ export function massProperties(mesh: TriMesh, opts: { density: number, reference
     escapeSpeedPointMass: Math.sqrt((2 * G * mass) / maxRadius),
     G,
   }
-  const comps = componentMasses(mesh, rho, [ox, oy, oz])
+  // edge-connected components ≥ vertex-connected ones, so one edge-connected piece is one piece
+  const comps = opts.componentCount === 1 ? undefined : componentMasses(mesh, rho, [ox, oy, oz])
   if (comps) props.components = comps
   return props
 }

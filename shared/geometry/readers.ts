@@ -3,9 +3,10 @@
  *
  * Everything works on the raw bytes (never one big string: V8 strings end near 512 MiB) and fills
  * Float64Array positions / Uint32Array indices directly. Numbers are parsed exactly as `Number()`
- * would: plain decimals with ≤ 2^53 mantissa and |exponent| ≤ 22 take an exact fast path
- * (Clinger 1990: both operands exact, one correctly rounded operation), anything else falls back
- * to `Number()` on the short token.
+ * would: plain decimals with ≤ 15 significant digits and |exponent| ≤ 22 take an exact fast path
+ * (W. D. Clinger, "How to read floating point numbers accurately", PLDI 1990: both operands exact,
+ * one correctly rounded operation), 16–19 digits an exact double-double path, anything else
+ * `Number()` on the short token (see `parseNumber`).
  */
 import { FILE_FACE_NUMBERING, GeometryError } from './types'
 import type { TriMesh } from './types'
@@ -116,7 +117,13 @@ export function isSep(c: number): boolean {
 
 /**
  * Parse the number token starting at `i` (no leading spaces), ending at a separator or `end`.
- * Returns NaN when `Number()` would (the caller raises the error with the line number).
+ * Returns NaN when `Number()` would (the caller raises the error with the line number), and
+ * otherwise exactly the double `Number()` gives (correctly rounded, ties to even):
+ * - ≤ 15 significant digits, |decimal exponent| ≤ 22: Clinger's fast path (integer mantissa and
+ *   10^|e| are both exact doubles, so one IEEE multiply or divide rounds correctly);
+ * - 16 to 19 significant digits, |exponent| ≤ 22 (what shortest round-trip writers produce):
+ *   `roundDecimal`, double-double arithmetic with a proven error bound;
+ * - anything else (more digits, larger exponents, inf/hex spellings): `Number()` on the token.
  * Sets `cursor.end`.
  */
 export function parseNumber(b: Uint8Array, i: number, end: number): number {
@@ -124,28 +131,29 @@ export function parseNumber(b: Uint8Array, i: number, end: number): number {
   let neg = false
   let c = b[i]!
   if (c === 45) { neg = true; i++ } else if (c === 43) i++
-  let m = 0
-  let nd = 0
-  let e10 = 0
-  while (i < end) {
+  // significant digits: the first 15 in `hi` (exact integer), the next ≤ 4 in `lo`
+  let hi = 0, lo = 0, nlo = 0, e10 = 0
+  let tooLong = false
+  const intStart = i
+  for (; i < end; i++) { // integer part
     c = b[i]! - 48
     if (c < 0 || c > 9) break
-    m = m * 10 + c
-    nd++
-    i++
+    if (hi < 1e14) hi = hi * 10 + c
+    else if (nlo < 4) { lo = lo * 10 + c; nlo++ } else tooLong = true
   }
-  if (i < end && b[i] === 46) {
-    i++
-    while (i < end) {
+  let nd = i - intStart
+  if (i < end && b[i] === 46 /* . */) {
+    const fracStart = ++i
+    for (; i < end; i++) { // fraction
       c = b[i]! - 48
       if (c < 0 || c > 9) break
-      m = m * 10 + c
-      nd++
-      e10--
-      i++
+      if (hi < 1e14) hi = hi * 10 + c
+      else if (nlo < 4) { lo = lo * 10 + c; nlo++ } else tooLong = true
     }
+    nd += i - fracStart
+    e10 = fracStart - i
   }
-  let ok = nd > 0
+  let ok = nd > 0 && !tooLong
   if (ok && i < end && (b[i] === 101 || b[i] === 69)) {
     i++
     let eneg = false
@@ -162,21 +170,73 @@ export function parseNumber(b: Uint8Array, i: number, end: number): number {
     if (ed === 0) ok = false
     e10 += eneg ? -ev : ev
   }
-  if (ok && (i >= end || isSep(b[i]!))) {
+  if (ok && (i >= end || isSep(b[i]!)) && e10 >= -22 && e10 <= 22) {
     cursor.end = i
-    if (m === 0) return neg ? -0 : 0
-    if (m <= MAX_EXACT && e10 >= -22 && e10 <= 22) {
-      const v = e10 < 0 ? m / POW10[-e10]! : m * POW10[e10]!
-      return neg ? -v : v
-    }
+    let v: number
+    if (nlo === 0) v = e10 < 0 ? hi / POW10[-e10]! : hi * POW10[e10]! // Clinger fast path
+    else v = roundDecimal(hi, lo, nlo, e10)
+    if (!Number.isNaN(v)) return neg ? -v : v
   }
-  // slow path: the whole token through Number()
+  return parseNumberSlow(b, start, end)
+}
+
+/** The whole token through `Number()` (sets `cursor.end`). */
+function parseNumberSlow(b: Uint8Array, start: number, end: number): number {
   let j = start
   while (j < end && !isSep(b[j]!)) j++
   cursor.end = j
   if (j - start > 400) return Number.NaN
-  const s = latin1(b, start, j)
-  return Number(s)
+  return Number(latin1(b, start, j))
+}
+
+/** Veltkamp's splitting constant 2^27 + 1. */
+const SPLITTER = 134217729
+
+/**
+ * Rounding error of the product p = fl(a·b): a·b − p, exact (Dekker's TwoProduct with
+ * Veltkamp splitting; T. J. Dekker, "A floating-point technique for extending the available
+ * precision", Numer. Math. 18, 1971). Needs no overflow or underflow, true for our operands.
+ */
+function productError(a: number, b: number, p: number): number {
+  const ta = SPLITTER * a, ah = ta - (ta - a), al = a - ah
+  const tb = SPLITTER * b, bh = tb - (tb - b), bl = b - bh
+  return ((ah * bh - p) + ah * bl + al * bh) + al * bl
+}
+
+/** 2^-96: relative width of the interval `roundDecimal` checks around its estimate. */
+const EPS_96 = 2 ** -96
+
+/**
+ * The double nearest to (hi·10^nlo + lo)·10^e10 (ties to even), for hi < 10^15, lo < 10^nlo,
+ * 1 ≤ nlo ≤ 4, |e10| ≤ 22; NaN when the estimate lies too close to a rounding boundary to decide
+ * (probability ≈ 2^-42; the caller then asks `Number()`).
+ * The mantissa M is held exactly as mh + ml; X = M·10^e10 is evaluated as p1 + t with total
+ * error below 2^-101·|X| (TwoProduct, and the exact division remainder a − fl(a/b)·b).
+ * Round-to-nearest is monotone, so when p1 + (t ± 2ε) with ε = 2^-96|p1| round to the same
+ * double, that double is the correctly rounded X.
+ */
+function roundDecimal(hi: number, lo: number, nlo: number, e10: number): number {
+  const s = POW10[nlo]!
+  const m0 = hi * s
+  const mh = m0 + lo // TwoSum (Knuth): mh + sumErr = m0 + lo exactly
+  const bv = mh - m0
+  const sumErr = (m0 - (mh - bv)) + (lo - bv)
+  const ml = productError(hi, s, m0) + sumErr // small integers: exact
+  let p1: number, t: number
+  if (e10 >= 0) {
+    const p = POW10[e10]!
+    p1 = mh * p
+    t = productError(mh, p, p1) + ml * p
+  } else {
+    const p = POW10[-e10]!
+    p1 = mh / p
+    const u = p1 * p
+    const rem = (mh - u) - productError(p1, p, u) // mh − p1·p, exact
+    t = (rem + ml) / p
+  }
+  const eps2 = 2 * EPS_96 * Math.abs(p1)
+  const up = p1 + (t + eps2), down = p1 + (t - eps2)
+  return up === down ? up : Number.NaN
 }
 
 /**

@@ -120,6 +120,13 @@ describe('massProperties: published worked example and closed forms', () => {
     const q = massProperties(cubes, { density: 1 })
     closeMat(q.inertia, p.inertia, 1e-13, 1e-14)
     expect(q.components).toHaveLength(3)
+    // validateMesh's component count (faces joined through edges) passed along: the three cubes
+    // touch along edges and faces but are separate solids, so the per-component pass still runs;
+    // the L-prism is one piece and gets no component list either way
+    const v = validateMesh(cubes)
+    expect(massProperties(v.mesh, { density: 1, componentCount: v.report.components }).components).toHaveLength(3)
+    expect(p.components).toBeUndefined()
+    expect(massProperties(mesh, { density: 1, componentCount: report.components })).toEqual(p)
   })
 })
 
