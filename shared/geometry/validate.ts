@@ -237,26 +237,13 @@ export function validateMesh(mesh: TriMesh, opts: ValidateOptions = {}): { mesh:
   }
   if (flippedFaces > 0) {
     warnings.push({ code: 'inconsistent-winding', message: `${flippedFaces} faces had a winding opposite to their neighbours and were reversed` })
-    E = analyseEdges(I, nv)
+    reflectTwins(E.twin, flip)
   }
 
   // 8. vertex fans must be single disks
   {
-    const { start, he, twin } = E
-    let bad = 0
-    const first: number[] = []
-    for (let v = 0; v < nv; v++) {
-      const deg = start[v + 1]! - start[v]!
-      const h0 = he[start[v]!]!
-      let g = h0, steps = 0
-      do {
-        const p = g % 3 === 0 ? g + 2 : g - 1 // half-edge into v in the same face
-        g = twin[p]!
-        steps++
-      } while (g !== h0 && steps <= deg)
-      if (steps !== deg) { bad++; if (first.length < MAX_LISTED) first.push(faceOrigin[(h0 / 3) | 0]!) }
-    }
-    const f = faceList(first)
+    const { bad, first } = nonManifoldVertices(I, nv, E.twin)
+    const f = faceList(first.map(x => faceOrigin[x]!))
     if (bad > 0) throw new GeometryError('non-manifold-vertex', `validateMesh: ${bad} vertices are non-manifold (their faces form more than one fan, e.g. two bodies touching at a point); first ${FACES} at such vertices: ${f.join(', ')}${numbering}`, issuesFor(f, 'face at a non-manifold vertex'))
   }
 
@@ -422,103 +409,149 @@ function weld(P: Float64Array, nv: number, minx: number, miny: number, minz: num
   return { map, count, reps }
 }
 
+/**
+ * Follows face flips (corners 1 and 2 swapped where flip[f] = 1) in the half-edge twin table, in
+ * place: in a flipped face the edge of half-edge k moves to slot 2 − k (0 ↔ 2, 1 stays). Same
+ * result as pairing the flipped faces' edges again, without a new pairing.
+ */
+function reflectTwins(twin: Int32Array, flip: Int8Array): void {
+  const slot = (h: number) => { const f = (h / 3) | 0; return flip[f] ? 3 * f + 2 - (h - 3 * f) : h }
+  for (let f = 0; f < flip.length; f++) {
+    const h = 3 * f
+    const t0 = slot(twin[h]!), t1 = slot(twin[h + 1]!), t2 = slot(twin[h + 2]!)
+    if (flip[f]) { twin[h] = t2; twin[h + 1] = t1; twin[h + 2] = t0 } else { twin[h] = t0; twin[h + 1] = t1; twin[h + 2] = t2 }
+  }
+}
+
+/**
+ * Vertices whose faces form more than one fan, on a closed, consistently wound mesh (twin has no
+ * −1). Algorithm: count each vertex's corners; from the vertex's corner in its first face, turn
+ * around the vertex (previous half-edge of the face, then its twin) until back at the start; a
+ * single disk visits every corner. Returns the count and the first faces (as triangle indices) of
+ * the first few such vertices, in vertex order.
+ */
+function nonManifoldVertices(I: Uint32Array, nv: number, twin: Int32Array): { bad: number, first: number[] } {
+  const deg = new Uint32Array(nv)
+  const firstCorner = new Int32Array(nv).fill(-1)
+  for (let h = 0; h < I.length; h++) {
+    const v = I[h]!
+    deg[v]!++
+    if (firstCorner[v] === -1) firstCorner[v] = h
+  }
+  let bad = 0
+  const first: number[] = []
+  for (let v = 0; v < nv; v++) {
+    const h0 = firstCorner[v]! // the half-edge leaving v in its first face
+    let g = h0, steps = 0
+    do {
+      const p = g % 3 === 0 ? g + 2 : g - 1 // half-edge into v in the same face
+      g = twin[p]!
+      steps++
+    } while (g !== h0 && steps <= deg[v]!)
+    if (steps !== deg[v]) { bad++; if (first.length < MAX_LISTED) first.push((h0 / 3) | 0) }
+  }
+  return { bad, first }
+}
+
 export interface EdgeAnalysis {
-  /** CSR of half-edges by source vertex: he[start[v] .. start[v+1]) are half-edge ids 3f+k out of v. */
-  start: Uint32Array
-  he: Uint32Array
-  /** Target vertex of he[k]. */
-  tgt: Uint32Array
-  /** Other half-edge on the same edge, or −1 (boundary / non-manifold). */
+  /** Other half-edge on the same edge, or −1 (boundary / non-manifold). Half-edge 3f+k runs from corner k to k+1 of face f. */
   twin: Int32Array
   /** 1 when the twin runs in the same direction (inconsistent winding). */
   sameDir: Uint8Array
   boundary: number
   nonManifold: number
+  /** Faces of the first boundary half-edges, ordered by (source vertex, half-edge id). */
   boundaryFaces: number[]
+  /** Faces of the first non-manifold edges (each named by its lowest half-edge), same order. */
   nonManifoldFaces: number[]
 }
 
 /**
- * Edge incidence by vertex-sorted half-edge lists. Half-edge 3f+k runs from corner k to corner
- * k+1 of face f. `skipDegenerate` ignores half-edges with equal ends.
+ * Edge incidence. Algorithm: a counting sort puts every half-edge h (stored as its id) into the
+ * bucket of its smaller end vertex (CSR, buckets in vertex order, ids ascending inside a bucket);
+ * all half-edges of one edge then share a bucket of ~6 entries and are matched there by their
+ * larger end. An edge with two half-edges is paired (same direction → `sameDir`), with one it is a
+ * boundary edge, with more it is non-manifold. Memory: the buckets (4 bytes per half-edge, freed
+ * on return) besides the result. `skipDegenerate` ignores half-edges with equal ends.
  */
 export function analyseEdges(I: Uint32Array, nv: number, skipDegenerate = false): EdgeAnalysis {
+  const { start, bucket, maxSize } = bucketByLowerEnd(I, nv, skipDegenerate)
   const nh = I.length
-  const start = new Uint32Array(nv + 1)
-  for (let h = 0; h < nh; h += 3) {
-    const a = I[h]!, b = I[h + 1]!, c = I[h + 2]!
-    if (skipDegenerate) {
-      if (a !== b) start[a + 1]!++
-      if (b !== c) start[b + 1]!++
-      if (c !== a) start[c + 1]!++
-    } else { start[a + 1]!++; start[b + 1]!++; start[c + 1]!++ }
-  }
-  for (let v = 0; v < nv; v++) start[v + 1] = start[v + 1]! + start[v]!
-  const fill = start.slice(0, nv)
-  const he = new Uint32Array(nh)
-  const tgt = new Uint32Array(nh)
-  for (let h = 0; h < nh; h += 3) {
-    const a = I[h]!, b = I[h + 1]!, c = I[h + 2]!
-    let k: number
-    if (!skipDegenerate || a !== b) { k = fill[a]!++; he[k] = h; tgt[k] = b }
-    if (!skipDegenerate || b !== c) { k = fill[b]!++; he[k] = h + 1; tgt[k] = c }
-    if (!skipDegenerate || c !== a) { k = fill[c]!++; he[k] = h + 2; tgt[k] = a }
-  }
   const twin = new Int32Array(nh).fill(-1)
   const sameDir = new Uint8Array(nh)
+  const other = new Uint32Array(maxSize) // larger end of each half-edge in the current bucket
   let boundary = 0, nonManifold = 0
-  const boundaryFaces: number[] = [], nonManifoldFaces: number[] = []
+  const boundaryHe: number[] = [], nonManifoldHe: number[] = []
   for (let v = 0; v < nv; v++) {
-    const s0 = start[v]!, s1 = start[v + 1]!
-    // most vertices send at most one half-edge to each neighbour: then no per-edge duplicate scan
-    const distinct = distinctTargets(tgt, s0, s1)
-    for (let k = s0; k < s1; k++) {
-      const h = he[k]!
-      if (twin[h] !== -1) continue // paired from the other end (common case below)
-      const b = tgt[k]!
-      // common case first: exactly one opposite half-edge b→a, and a→b not duplicated (a
-      // duplicate a→b would make the b→a half-edge see two opposites and take the slow path)
-      let nOpp = 0, oppH = -1
-      const t0 = start[b]!, t1 = start[b + 1]!
-      for (let k3 = t0; k3 < t1; k3++) {
-        if (tgt[k3] === v) { nOpp++; oppH = he[k3]! }
-      }
-      if (nOpp === 1) {
-        // is b→a itself seeing a duplicate a→b? count a→b in our own list
-        let dup = false
-        if (!distinct) for (let k2 = s0; k2 < s1; k2++) if (k2 !== k && tgt[k2] === b) { dup = true; break }
-        // the pair is then symmetric: b→a would find exactly this a→b, so pair both ends now
-        if (!dup) { twin[h] = oppH; twin[oppH] = h; continue }
-      }
-      let nSame = 0, sameH = -1, minH = h
-      for (let k2 = s0; k2 < s1; k2++) {
-        if (k2 !== k && tgt[k2] === b) { nSame++; sameH = he[k2]!; if (sameH < minH) minH = sameH }
-      }
-      for (let k3 = t0; k3 < t1; k3++) {
-        if (tgt[k3] === v) { const o = he[k3]!; if (o < minH) minH = o }
-      }
-      const total = 1 + nSame + nOpp
-      if (total === 2) {
-        if (nSame) { twin[h] = sameH; sameDir[h] = 1 } else twin[h] = oppH
-      } else if (total === 1) {
+    const s0 = v === 0 ? 0 : start[v - 1]!, s1 = start[v]!
+    const n = s1 - s0
+    for (let i = 0; i < n; i++) { const h = bucket[s0 + i]!; other[i] = I[h]! + I[nextCorner(h)]! - v }
+    for (let i = 0; i < n; i++) {
+      const b = other[i]!
+      let seen = false // an earlier entry of this bucket already handled the edge v–b
+      for (let j = 0; j < i; j++) if (other[j] === b) { seen = true; break }
+      if (seen) continue
+      const h = bucket[s0 + i]!
+      let count = 1, mate = -1
+      for (let j = i + 1; j < n; j++) if (other[j] === b) { count++; mate = bucket[s0 + j]! }
+      if (count === 2) {
+        twin[h] = mate; twin[mate] = h
+        // same direction when both half-edges leave the same vertex
+        if (I[h] === I[mate]) { sameDir[h] = 1; sameDir[mate] = 1 }
+      } else if (count === 1) {
         boundary++
-        if (boundaryFaces.length < MAX_LISTED) boundaryFaces.push((h / 3) | 0)
-      } else if (minH === h) {
+        keepFirst(boundaryHe, h, I)
+      } else {
         nonManifold++
-        if (nonManifoldFaces.length < MAX_LISTED) nonManifoldFaces.push((h / 3) | 0)
+        keepFirst(nonManifoldHe, h, I) // h is the edge's lowest half-edge id (ids ascend in a bucket)
       }
     }
   }
-  return { start, he, tgt, twin, sameDir, boundary, nonManifold, boundaryFaces, nonManifoldFaces }
+  const faceOf = (h: number) => (h / 3) | 0
+  return { twin, sameDir, boundary, nonManifold, boundaryFaces: boundaryHe.map(faceOf), nonManifoldFaces: nonManifoldHe.map(faceOf) }
 }
 
-/** True when tgt[s0 .. s1) holds no value twice (a vertex's out-going half-edges, degree ~6). */
-function distinctTargets(tgt: Uint32Array, s0: number, s1: number): boolean {
-  for (let k = s0 + 1; k < s1; k++) {
-    const t = tgt[k]!
-    for (let j = s0; j < k; j++) if (tgt[j] === t) return false
+/** Corner after the start corner of half-edge h, i.e. the half-edge's target corner. */
+function nextCorner(h: number): number { return h % 3 === 2 ? h - 2 : h + 1 }
+
+/**
+ * Counting sort of half-edge ids by their smaller end vertex. On return bucket v is
+ * bucket[start[v−1] .. start[v]) (start[−1] read as 0): the fill cursor ends at the next bucket.
+ */
+function bucketByLowerEnd(I: Uint32Array, nv: number, skipDegenerate: boolean) {
+  const nh = I.length
+  const start = new Uint32Array(nv + 1)
+  for (let h = 0; h < nh; h++) {
+    const a = I[h]!, b = I[nextCorner(h)]!
+    if (skipDegenerate && a === b) continue
+    start[(a < b ? a : b) + 1]!++
   }
-  return true
+  let maxSize = 0
+  for (let v = 0; v < nv; v++) {
+    if (start[v + 1]! > maxSize) maxSize = start[v + 1]!
+    start[v + 1] = start[v + 1]! + start[v]!
+  }
+  const bucket = new Uint32Array(start[nv]!)
+  for (let h = 0; h < nh; h++) {
+    const a = I[h]!, b = I[nextCorner(h)]!
+    if (skipDegenerate && a === b) continue
+    bucket[start[a < b ? a : b]!++] = h
+  }
+  return { start, bucket, maxSize }
+}
+
+/**
+ * Keeps in `list` the MAX_LISTED half-edges that come first in the order (source vertex I[h], h),
+ * the order in which a vertex-by-vertex scan of out-going half-edges would meet them.
+ */
+function keepFirst(list: number[], h: number, I: Uint32Array): void {
+  const before = (x: number, y: number) => I[x]! < I[y]! || (I[x] === I[y] && x < y)
+  if (list.length === MAX_LISTED && !before(h, list[MAX_LISTED - 1]!)) return
+  let i = list.length
+  list.push(h)
+  while (i > 0 && before(h, list[i - 1]!)) { list[i] = list[i - 1]!; i-- }
+  list[i] = h
+  if (list.length > MAX_LISTED) list.pop()
 }
 
 /**
