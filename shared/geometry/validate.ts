@@ -126,31 +126,12 @@ export function validateMesh(mesh: TriMesh, opts: ValidateOptions = {}): { mesh:
   const weldedVertices = nv0 - nvWeld
 
   // 4. remap faces, drop collapsed and zero-area triangles
-  let I = new Uint32Array(I0.length)
-  let faceOrigin = new Uint32Array(nf0)
-  let nf = 0
-  let degenerate = 0
   const degFaces: number[] = []
-  for (let f = 0; f < nf0; f++) {
-    const a = weldMap[I0[3 * f]!]!, b = weldMap[I0[3 * f + 1]!]!, c = weldMap[I0[3 * f + 2]!]!
-    let deg = a === b || b === c || c === a
-    if (!deg) {
-      const ra = 3 * reps[a]!, rb = 3 * reps[b]!, rc = 3 * reps[c]!
-      const ux = P0[rb]! - P0[ra]!, uy = P0[rb + 1]! - P0[ra + 1]!, uz = P0[rb + 2]! - P0[ra + 2]!
-      const vx = P0[rc]! - P0[ra]!, vy = P0[rc + 1]! - P0[ra + 1]!, vz = P0[rc + 2]! - P0[ra + 2]!
-      const wx = vx - ux, wy = vy - uy, wz = vz - uz
-      const cx = uy * vz - uz * vy, cy = uz * vx - ux * vz, cz = ux * vy - uy * vx
-      const cross2 = cx * cx + cy * cy + cz * cz
-      const e2 = Math.max(ux * ux + uy * uy + uz * uz, vx * vx + vy * vy + vz * vz, wx * wx + wy * wy + wz * wz)
-      deg = cross2 <= 1e-24 * e2 * e2
-    }
-    if (deg) { degenerate++; if (degFaces.length < MAX_LISTED) degFaces.push(f); continue }
-    I[3 * nf] = a; I[3 * nf + 1] = b; I[3 * nf + 2] = c
-    faceOrigin[nf] = f
-    nf++
-  }
+  const remapped = remapFaces(P0, I0, doWeld ? weldMap : null, reps, degFaces)
+  const I = remapped.I, faceOrigin = remapped.faceOrigin
+  const nf = remapped.nf
+  const degenerate = nf0 - nf
   if (nf === 0) throw new GeometryError('degenerate-face', `validateMesh: all ${nf0} triangles are degenerate (zero area)`, issuesFor(faceList(degFaces), 'zero-area face'))
-  if (nf < nf0) { I = I.slice(0, 3 * nf); faceOrigin = faceOrigin.slice(0, nf) }
 
   // 5. drop unreferenced vertices, build compact positions
   const { used, count: nv } = renumberUsed(I, nvWeld)
@@ -191,50 +172,16 @@ export function validateMesh(mesh: TriMesh, opts: ValidateOptions = {}): { mesh:
   if (degenerate > 0) warnings.push({ code: 'degenerate-faces', message: `${degenerate} zero-area triangles were dropped; first ${FACES} with them: ${faceList(degFaces).join(', ')}${numbering}` })
 
   // 7. orientation: BFS over faces through edges; components
-  const flip = new Int8Array(nf).fill(-1)
-  const comp = new Int32Array(nf)
-  const queue = new Uint32Array(nf)
-  const compSizes: number[] = []
-  const compFlips: number[] = []
-  const badOrient: number[] = []
-  let nComp = 0
-  const twinA = E.twin, sameA = E.sameDir
-  for (let s = 0; s < nf; s++) {
-    if (flip[s] !== -1) continue
-    let head = 0, tail = 0
-    queue[tail++] = s
-    flip[s] = 0
-    comp[s] = nComp
-    let size = 0, flips = 0
-    while (head < tail) {
-      const f = queue[head++]!
-      size++
-      const ff = flip[f]!
-      flips += ff
-      for (let k = 0; k < 3; k++) {
-        const h = 3 * f + k
-        const g = (twinA[h]! / 3) | 0
-        const want = sameA[h] ? 1 - ff : ff
-        if (flip[g] === -1) { flip[g] = want; comp[g] = nComp; queue[tail++] = g } else if (flip[g] !== want && badOrient.length < MAX_LISTED) badOrient.push(faceOrigin[g]!)
-      }
-    }
-    compSizes.push(size)
-    compFlips.push(flips)
-    nComp++
-  }
+  const { flip, comp, compSizes, compFlips, badFaces } = orientComponents(nf, E.twin, E.sameDir)
+  const nComp = compSizes.length
+  const badOrient = badFaces.map(g => faceOrigin[g]!)
   if (badOrient.length > 0) {
     const f = faceList(badOrient)
     throw new GeometryError('non-orientable', `validateMesh: the surface is not orientable (no consistent winding exists, e.g. a Möbius band); ${FACES} involved include: ${f.join(', ')}${numbering}`, issuesFor(f, 'inconsistent winding that cannot be fixed'))
   }
   // keep the majority winding of each component
-  const invertBfs = compFlips.map((fl, c) => fl * 2 > compSizes[c]!)
-  let flippedFaces = 0
-  for (let f = 0; f < nf; f++) {
-    let fl = flip[f]!
-    if (invertBfs[comp[f]!]) fl = 1 - fl
-    flip[f] = fl
-    if (fl) { flippedFaces++; const t = I[3 * f + 1]!; I[3 * f + 1] = I[3 * f + 2]!; I[3 * f + 2] = t }
-  }
+  const invertBfs = Uint8Array.from(compFlips, (fl, c) => (fl * 2 > compSizes[c]! ? 1 : 0))
+  const flippedFaces = applyFlips(I, flip, comp, invertBfs)
   if (flippedFaces > 0) {
     warnings.push({ code: 'inconsistent-winding', message: `${flippedFaces} faces had a winding opposite to their neighbours and were reversed` })
     reflectTwins(E.twin, flip)
@@ -249,21 +196,12 @@ export function validateMesh(mesh: TriMesh, opts: ValidateOptions = {}): { mesh:
 
   // 9. signed volume per component; reverse inside-out components
   const cx = (minx + maxx) / 2, cy = (miny + maxy) / 2, cz = (minz + maxz) / 2
-  const vol = new Float64Array(nComp)
-  for (let f = 0; f < nf; f++) {
-    const a = 3 * I[3 * f]!, b = 3 * I[3 * f + 1]!, c = 3 * I[3 * f + 2]!
-    const ax = P[a]! - cx, ay = P[a + 1]! - cy, az = P[a + 2]! - cz
-    const bx = P[b]! - cx, by = P[b + 1]! - cy, bz = P[b + 2]! - cz
-    const qx = P[c]! - cx, qy = P[c + 1]! - cy, qz = P[c + 2]! - cz
-    vol[comp[f]!] = vol[comp[f]!]! + ax * (by * qz - bz * qy) + ay * (bz * qx - bx * qz) + az * (bx * qy - by * qx)
-  }
+  const vol = componentVolumes(P, I, comp, nComp, cx, cy, cz)
   let invertedComponents = 0
   let volume = 0
   for (let c = 0; c < nComp; c++) { if (vol[c]! < 0) invertedComponents++; volume += Math.abs(vol[c]!) / 6 }
   if (invertedComponents > 0) {
-    for (let f = 0; f < nf; f++) {
-      if (vol[comp[f]!]! < 0) { const t = I[3 * f + 1]!; I[3 * f + 1] = I[3 * f + 2]!; I[3 * f + 2] = t }
-    }
+    reverseInverted(I, comp, vol)
     warnings.push({ code: 'inverted-orientation', message: `${invertedComponents} of ${nComp} components were inside-out (negative volume) and were reversed` })
   }
   const componentFaceCounts = compSizes.slice().sort((a, b) => b - a)
@@ -410,6 +348,116 @@ function weld(P: Float64Array, nv: number, minx: number, miny: number, minz: num
 }
 
 /**
+ * Face remap after welding (weldMap null: no weld, indices kept). Drops collapsed triangles and
+ * zero-area ones: |u × v|² ≤ 1e-24 · (longest edge)⁴, i.e. sin of the largest angle below 1e-12
+ * (common practice, no source). Lists the first few dropped input triangles in `degFaces`.
+ */
+function remapFaces(P0: Float64Array, I0: Uint32Array, weldMap: Uint32Array | null, reps: Uint32Array, degFaces: number[]) {
+  const nf0 = I0.length / 3
+  let I = new Uint32Array(I0.length)
+  let faceOrigin = new Uint32Array(nf0)
+  let nf = 0
+  for (let f = 0; f < nf0; f++) {
+    let a = I0[3 * f]!, b = I0[3 * f + 1]!, c = I0[3 * f + 2]!
+    if (weldMap) { a = weldMap[a]!; b = weldMap[b]!; c = weldMap[c]! }
+    const deg = a === b || b === c || c === a || (weldMap ? zeroArea(P0, reps[a]!, reps[b]!, reps[c]!) : zeroArea(P0, a, b, c))
+    if (deg) { if (degFaces.length < MAX_LISTED) degFaces.push(f); continue }
+    I[3 * nf] = a; I[3 * nf + 1] = b; I[3 * nf + 2] = c
+    faceOrigin[nf] = f
+    nf++
+  }
+  if (nf < nf0 && nf > 0) { I = I.slice(0, 3 * nf); faceOrigin = faceOrigin.slice(0, nf) }
+  return { I, faceOrigin, nf }
+}
+
+/** True when the triangle of vertices a, b, c (indices into P, m) has zero area to working precision. */
+function zeroArea(P: Float64Array, a: number, b: number, c: number): boolean {
+  const ra = 3 * a, rb = 3 * b, rc = 3 * c
+  const ux = P[rb]! - P[ra]!, uy = P[rb + 1]! - P[ra + 1]!, uz = P[rb + 2]! - P[ra + 2]!
+  const vx = P[rc]! - P[ra]!, vy = P[rc + 1]! - P[ra + 1]!, vz = P[rc + 2]! - P[ra + 2]!
+  const wx = vx - ux, wy = vy - uy, wz = vz - uz
+  const cx = uy * vz - uz * vy, cy = uz * vx - ux * vz, cz = ux * vy - uy * vx
+  const cross2 = cx * cx + cy * cy + cz * cz
+  const e2 = Math.max(ux * ux + uy * uy + uz * uz, vx * vx + vy * vy + vz * vz, wx * wx + wy * wy + wz * wz)
+  return cross2 <= 1e-24 * e2 * e2
+}
+
+/**
+ * Breadth-first search over faces through paired edges, seeded at the lowest unvisited face.
+ * flip[f] (0/1) is f's winding relative to its component's seed: a neighbour across a
+ * same-direction edge gets the opposite flip. comp[f] labels components in order of first face.
+ * badFaces: the first few faces reached with a contradictory flip (the surface is not orientable).
+ */
+function orientComponents(nf: number, twin: Int32Array, sameDir: Uint8Array) {
+  const flip = new Int8Array(nf).fill(-1)
+  const comp = new Uint32Array(nf)
+  const queue = new Uint32Array(nf)
+  const compSizes: number[] = []
+  const compFlips: number[] = []
+  const badFaces: number[] = []
+  for (let s = 0; s < nf; s++) {
+    if (flip[s] !== -1) continue
+    const nComp = compSizes.length
+    let head = 0, tail = 0
+    queue[tail++] = s
+    flip[s] = 0
+    comp[s] = nComp
+    let flips = 0
+    while (head < tail) {
+      const f = queue[head++]!
+      const ff = flip[f]!
+      flips += ff
+      for (let h = 3 * f; h < 3 * f + 3; h++) {
+        const g = (twin[h]! / 3) | 0
+        const want = sameDir[h] ? 1 - ff : ff
+        if (flip[g] === -1) { flip[g] = want; comp[g] = nComp; queue[tail++] = g } else if (flip[g] !== want && badFaces.length < MAX_LISTED) badFaces.push(g)
+      }
+    }
+    compSizes.push(tail)
+    compFlips.push(flips)
+  }
+  return { flip, comp, compSizes, compFlips, badFaces }
+}
+
+/**
+ * Final winding per face: the BFS flip, inverted for components where most faces were flipped
+ * (the majority winding is kept). Reverses those faces in I (corners 1 and 2), leaves the final
+ * flip in `flip` and returns how many faces were reversed.
+ */
+function applyFlips(I: Uint32Array, flip: Int8Array, comp: Uint32Array, invert: Uint8Array): number {
+  let flipped = 0
+  for (let f = 0; f < flip.length; f++) {
+    const fl = invert[comp[f]!] ? 1 - flip[f]! : flip[f]!
+    flip[f] = fl
+    if (fl) { flipped++; const t = I[3 * f + 1]!; I[3 * f + 1] = I[3 * f + 2]!; I[3 * f + 2] = t }
+  }
+  return flipped
+}
+
+/**
+ * Six times the signed volume of each component, m³: sum over its faces of the triple product of
+ * the corners taken from (cx, cy, cz) (divergence theorem; common practice, no source).
+ */
+function componentVolumes(P: Float64Array, I: Uint32Array, comp: Uint32Array, nComp: number, cx: number, cy: number, cz: number): Float64Array {
+  const vol = new Float64Array(nComp)
+  for (let f = 0; f < comp.length; f++) {
+    const a = 3 * I[3 * f]!, b = 3 * I[3 * f + 1]!, c = 3 * I[3 * f + 2]!
+    const ax = P[a]! - cx, ay = P[a + 1]! - cy, az = P[a + 2]! - cz
+    const bx = P[b]! - cx, by = P[b + 1]! - cy, bz = P[b + 2]! - cz
+    const qx = P[c]! - cx, qy = P[c + 1]! - cy, qz = P[c + 2]! - cz
+    vol[comp[f]!] = vol[comp[f]!]! + ax * (by * qz - bz * qy) + ay * (bz * qx - bx * qz) + az * (bx * qy - by * qx)
+  }
+  return vol
+}
+
+/** Reverses (corners 1 and 2) every face of a component with negative volume. */
+function reverseInverted(I: Uint32Array, comp: Uint32Array, vol: Float64Array): void {
+  for (let f = 0; f < comp.length; f++) {
+    if (vol[comp[f]!]! < 0) { const t = I[3 * f + 1]!; I[3 * f + 1] = I[3 * f + 2]!; I[3 * f + 2] = t }
+  }
+}
+
+/**
  * Follows face flips (corners 1 and 2 swapped where flip[f] = 1) in the half-edge twin table, in
  * place: in a flipped face the edge of half-edge k moves to slot 2 − k (0 ↔ 2, 1 stays). Same
  * result as pairing the flipped faces' edges again, without a new pairing.
@@ -458,6 +506,8 @@ export interface EdgeAnalysis {
   twin: Int32Array
   /** 1 when the twin runs in the same direction (inconsistent winding). */
   sameDir: Uint8Array
+  /** Paired edges whose two half-edges run the same way (0: winding consistent everywhere). */
+  sameDirEdges: number
   boundary: number
   nonManifold: number
   /** Faces of the first boundary half-edges, ordered by (source vertex, half-edge id). */
@@ -468,36 +518,33 @@ export interface EdgeAnalysis {
 
 /**
  * Edge incidence. Algorithm: a counting sort puts every half-edge h (stored as its id) into the
- * bucket of its smaller end vertex (CSR, buckets in vertex order, ids ascending inside a bucket);
+ * bucket of its smaller end vertex (CSR, buckets in vertex order, ids ascending inside a bucket,
+ * larger end stored beside each id);
  * all half-edges of one edge then share a bucket of ~6 entries and are matched there by their
  * larger end. An edge with two half-edges is paired (same direction → `sameDir`), with one it is a
- * boundary edge, with more it is non-manifold. Memory: the buckets (4 bytes per half-edge, freed
- * on return) besides the result. `skipDegenerate` ignores half-edges with equal ends.
+ * boundary edge, with more it is non-manifold. Memory: the buckets (8 bytes per half-edge, freed
+ * on return) besides the result (5 bytes per half-edge). `skipDegenerate` ignores half-edges with equal ends.
  */
 export function analyseEdges(I: Uint32Array, nv: number, skipDegenerate = false): EdgeAnalysis {
-  const { start, bucket, maxSize } = bucketByLowerEnd(I, nv, skipDegenerate)
+  const { start, bucket, upper } = bucketByLowerEnd(I, nv, skipDegenerate)
   const nh = I.length
   const twin = new Int32Array(nh).fill(-1)
   const sameDir = new Uint8Array(nh)
-  const other = new Uint32Array(maxSize) // larger end of each half-edge in the current bucket
-  let boundary = 0, nonManifold = 0
+  let boundary = 0, nonManifold = 0, sameDirEdges = 0
   const boundaryHe: number[] = [], nonManifoldHe: number[] = []
   for (let v = 0; v < nv; v++) {
     const s0 = v === 0 ? 0 : start[v - 1]!, s1 = start[v]!
-    const n = s1 - s0
-    for (let i = 0; i < n; i++) { const h = bucket[s0 + i]!; other[i] = I[h]! + I[nextCorner(h)]! - v }
-    for (let i = 0; i < n; i++) {
-      const b = other[i]!
+    for (let i = s0; i < s1; i++) {
+      const b = upper[i]! >>> 1
       let seen = false // an earlier entry of this bucket already handled the edge v–b
-      for (let j = 0; j < i; j++) if (other[j] === b) { seen = true; break }
+      for (let j = s0; j < i; j++) if (upper[j]! >>> 1 === b) { seen = true; break }
       if (seen) continue
-      const h = bucket[s0 + i]!
-      let count = 1, mate = -1
-      for (let j = i + 1; j < n; j++) if (other[j] === b) { count++; mate = bucket[s0 + j]! }
+      const h = bucket[i]!
+      let count = 1, mate = -1, mateDir = 0
+      for (let j = i + 1; j < s1; j++) if (upper[j]! >>> 1 === b) { count++; mate = bucket[j]!; mateDir = upper[j]! & 1 }
       if (count === 2) {
         twin[h] = mate; twin[mate] = h
-        // same direction when both half-edges leave the same vertex
-        if (I[h] === I[mate]) { sameDir[h] = 1; sameDir[mate] = 1 }
+        if ((upper[i]! & 1) === mateDir) { sameDir[h] = 1; sameDir[mate] = 1; sameDirEdges++ }
       } else if (count === 1) {
         boundary++
         keepFirst(boundaryHe, h, I)
@@ -508,7 +555,7 @@ export function analyseEdges(I: Uint32Array, nv: number, skipDegenerate = false)
     }
   }
   const faceOf = (h: number) => (h / 3) | 0
-  return { twin, sameDir, boundary, nonManifold, boundaryFaces: boundaryHe.map(faceOf), nonManifoldFaces: nonManifoldHe.map(faceOf) }
+  return { twin, sameDir, sameDirEdges, boundary, nonManifold, boundaryFaces: boundaryHe.map(faceOf), nonManifoldFaces: nonManifoldHe.map(faceOf) }
 }
 
 /** Corner after the start corner of half-edge h, i.e. the half-edge's target corner. */
@@ -517,27 +564,35 @@ function nextCorner(h: number): number { return h % 3 === 2 ? h - 2 : h + 1 }
 /**
  * Counting sort of half-edge ids by their smaller end vertex. On return bucket v is
  * bucket[start[v−1] .. start[v]) (start[−1] read as 0): the fill cursor ends at the next bucket.
+ * upper[k] is 2 × (larger end of half-edge bucket[k]) + (1 when it runs from the larger end),
+ * stored so that the matching reads no face.
  */
 function bucketByLowerEnd(I: Uint32Array, nv: number, skipDegenerate: boolean) {
   const nh = I.length
   const start = new Uint32Array(nv + 1)
-  for (let h = 0; h < nh; h++) {
-    const a = I[h]!, b = I[nextCorner(h)]!
-    if (skipDegenerate && a === b) continue
-    start[(a < b ? a : b) + 1]!++
+  for (let h = 0; h < nh; h += 3) {
+    const a = I[h]!, b = I[h + 1]!, c = I[h + 2]!
+    if (!skipDegenerate || a !== b) start[(a < b ? a : b) + 1]!++
+    if (!skipDegenerate || b !== c) start[(b < c ? b : c) + 1]!++
+    if (!skipDegenerate || c !== a) start[(c < a ? c : a) + 1]!++
   }
-  let maxSize = 0
-  for (let v = 0; v < nv; v++) {
-    if (start[v + 1]! > maxSize) maxSize = start[v + 1]!
-    start[v + 1] = start[v + 1]! + start[v]!
-  }
+  for (let v = 0; v < nv; v++) start[v + 1] = start[v + 1]! + start[v]!
   const bucket = new Uint32Array(start[nv]!)
-  for (let h = 0; h < nh; h++) {
-    const a = I[h]!, b = I[nextCorner(h)]!
-    if (skipDegenerate && a === b) continue
-    bucket[start[a < b ? a : b]!++] = h
+  const upper = new Uint32Array(start[nv]!)
+  for (let h = 0; h < nh; h += 3) {
+    const a = I[h]!, b = I[h + 1]!, c = I[h + 2]!
+    if (!skipDegenerate || a !== b) place(start, bucket, upper, h, a, b)
+    if (!skipDegenerate || b !== c) place(start, bucket, upper, h + 1, b, c)
+    if (!skipDegenerate || c !== a) place(start, bucket, upper, h + 2, c, a)
   }
-  return { start, bucket, maxSize }
+  return { start, bucket, upper }
+}
+
+/** Puts half-edge h (a → b) at the fill cursor of its lower end's bucket. */
+function place(start: Uint32Array, bucket: Uint32Array, upper: Uint32Array, h: number, a: number, b: number): void {
+  const k = start[a < b ? a : b]!++
+  bucket[k] = h
+  upper[k] = a < b ? 2 * b : 2 * a + 1
 }
 
 /**
