@@ -134,7 +134,8 @@ export function validateMesh(mesh: TriMesh, opts: ValidateOptions = {}): { mesh:
   if (nf === 0) throw new GeometryError('degenerate-face', `validateMesh: all ${nf0} triangles are degenerate (zero area)`, issuesFor(faceList(degFaces), 'zero-area face'))
 
   // 5. drop unreferenced vertices, build compact positions
-  const { used, count: nv } = renumberUsed(I, nvWeld)
+  const corners = cornersPerVertex(I, nvWeld)
+  const { used, count: nv } = renumberUsed(I, corners)
   let P: Float64Array
   if (!doWeld && nv === nvWeld) P = P0.slice() // nothing welded or dropped: a plain copy
   else {
@@ -171,28 +172,41 @@ export function validateMesh(mesh: TriMesh, opts: ValidateOptions = {}): { mesh:
   }
   if (degenerate > 0) warnings.push({ code: 'degenerate-faces', message: `${degenerate} zero-area triangles were dropped; first ${FACES} with them: ${faceList(degFaces).join(', ')}${numbering}` })
 
-  // 7. orientation: BFS over faces through edges; components
-  const { flip, comp, compSizes, compFlips, badFaces } = orientComponents(nf, E.twin, E.sameDir)
-  const nComp = compSizes.length
-  const badOrient = badFaces.map(g => faceOrigin[g]!)
-  if (badOrient.length > 0) {
-    const f = faceList(badOrient)
-    throw new GeometryError('non-orientable', `validateMesh: the surface is not orientable (no consistent winding exists, e.g. a Möbius band); ${FACES} involved include: ${f.join(', ')}${numbering}`, issuesFor(f, 'inconsistent winding that cannot be fixed'))
-  }
-  // keep the majority winding of each component
-  const invertBfs = Uint8Array.from(compFlips, (fl, c) => (fl * 2 > compSizes[c]! ? 1 : 0))
-  const flippedFaces = applyFlips(I, flip, comp, invertBfs)
-  if (flippedFaces > 0) {
-    warnings.push({ code: 'inconsistent-winding', message: `${flippedFaces} faces had a winding opposite to their neighbours and were reversed` })
-    reflectTwins(E.twin, flip)
-  }
-
-  // 8. vertex fans must be single disks
-  {
-    const { bad, first } = nonManifoldVertices(I, nv, E.twin)
+  // 7–8. orientation, components, vertex fans
+  const checkFans = () => {
+    const { bad, first } = nonManifoldVertices(I, corners, E.twin)
     const f = faceList(first.map(x => faceOrigin[x]!))
     if (bad > 0) throw new GeometryError('non-manifold-vertex', `validateMesh: ${bad} vertices are non-manifold (their faces form more than one fan, e.g. two bodies touching at a point); first ${FACES} at such vertices: ${f.join(', ')}${numbering}`, issuesFor(f, 'face at a non-manifold vertex'))
   }
+  let comp: Uint32Array, compSizes: number[], flippedFaces = 0
+  if (E.sameDirEdges === 0) {
+    // Winding already consistent: nothing to flip and nothing non-orientable, so the fan check
+    // can come first. Once every fan is a single disk, faces sharing a vertex are also joined
+    // through edges, and a union-find on vertices gives the components the search would give.
+    checkFans()
+    const fc = faceComponents({ positions: P, indices: I })
+    comp = fc.label
+    compSizes = countLabels(comp, fc.count)
+  } else {
+    // search over faces through edges: flips relative to each component's first face
+    const o = orientComponents(nf, E.twin, E.sameDir)
+    comp = o.comp
+    compSizes = o.compSizes
+    const badOrient = o.badFaces.map(g => faceOrigin[g]!)
+    if (badOrient.length > 0) {
+      const f = faceList(badOrient)
+      throw new GeometryError('non-orientable', `validateMesh: the surface is not orientable (no consistent winding exists, e.g. a Möbius band); ${FACES} involved include: ${f.join(', ')}${numbering}`, issuesFor(f, 'inconsistent winding that cannot be fixed'))
+    }
+    // keep the majority winding of each component
+    const invertBfs = Uint8Array.from(o.compFlips, (fl, c) => (fl * 2 > compSizes[c]! ? 1 : 0))
+    flippedFaces = applyFlips(I, o.flip, comp, invertBfs)
+    if (flippedFaces > 0) {
+      warnings.push({ code: 'inconsistent-winding', message: `${flippedFaces} faces had a winding opposite to their neighbours and were reversed` })
+      reflectTwins(E.twin, o.flip)
+    }
+    checkFans()
+  }
+  const nComp = compSizes.length
 
   // 9. signed volume per component; reverse inside-out components
   const cx = (minx + maxx) / 2, cy = (miny + maxy) / 2, cz = (minz + maxz) / 2
@@ -273,14 +287,39 @@ function boundsBlock(P: Float64Array, from: number, to: number, box: Float64Arra
  * Renumber the vertices that some face uses, keeping their order, and rewrite I in place.
  * Returns used (old → new index, −1 when unused) and the number of used vertices.
  */
-function renumberUsed(I: Uint32Array, nv: number): { used: Int32Array, count: number } {
-  const used = new Int32Array(nv).fill(-1)
-  for (let i = 0; i < I.length; i++) used[I[i]!] = 0
+function renumberUsed(I: Uint32Array, corners: VertexCorners): { used: Int32Array, count: number } {
+  const { count: deg, firstFace } = corners
+  const nv = deg.length
+  const used = new Int32Array(nv)
   let count = 0
-  for (let v = 0; v < nv; v++) if (used[v] === 0) used[v] = count++
+  for (let v = 0; v < nv; v++) used[v] = deg[v]! > 0 ? count++ : -1
   // renumbering keeps the vertex order, so with no unreferenced vertices it is the identity
-  if (count < nv) for (let i = 0; i < I.length; i++) I[i] = used[I[i]!]!
+  if (count < nv) {
+    for (let i = 0; i < I.length; i++) I[i] = used[I[i]!]!
+    // the per-vertex tables follow the new numbering
+    for (let v = 0; v < nv; v++) if (used[v]! >= 0) { deg[used[v]!] = deg[v]!; firstFace[used[v]!] = firstFace[v]! }
+    corners.count = deg.subarray(0, count)
+    corners.firstFace = firstFace.subarray(0, count)
+  }
   return { used, count }
+}
+
+interface VertexCorners {
+  /** Face corners at each vertex (0: unreferenced). */
+  count: Uint32Array
+  /** First face that uses each vertex, −1 when none. */
+  firstFace: Int32Array
+}
+
+/** One pass over the faces: corners per vertex and each vertex's first face. */
+function cornersPerVertex(I: Uint32Array, nv: number): VertexCorners {
+  const count = new Uint32Array(nv)
+  const firstFace = new Int32Array(nv).fill(-1)
+  for (let h = 0; h < I.length; h++) {
+    const v = I[h]!
+    if (count[v]!++ === 0) firstFace[v] = (h / 3) | 0
+  }
+  return { count, firstFace }
 }
 
 function identityWeld(nv: number) {
@@ -450,6 +489,13 @@ function componentVolumes(P: Float64Array, I: Uint32Array, comp: Uint32Array, nC
   return vol
 }
 
+/** Number of faces per component label 0 .. n−1. */
+function countLabels(label: Uint32Array, n: number): number[] {
+  const sizes = new Array<number>(n).fill(0)
+  for (let f = 0; f < label.length; f++) sizes[label[f]!]!++
+  return sizes
+}
+
 /** Reverses (corners 1 and 2) every face of a component with negative volume. */
 function reverseInverted(I: Uint32Array, comp: Uint32Array, vol: Float64Array): void {
   for (let f = 0; f < comp.length; f++) {
@@ -473,30 +519,26 @@ function reflectTwins(twin: Int32Array, flip: Int8Array): void {
 
 /**
  * Vertices whose faces form more than one fan, on a closed, consistently wound mesh (twin has no
- * −1). Algorithm: count each vertex's corners; from the vertex's corner in its first face, turn
- * around the vertex (previous half-edge of the face, then its twin) until back at the start; a
- * single disk visits every corner. Returns the count and the first faces (as triangle indices) of
- * the first few such vertices, in vertex order.
+ * −1). Algorithm: from the vertex's corner in its first face, turn around the vertex (previous
+ * half-edge of the face, then its twin) until back at the start; a single disk visits every
+ * corner of the vertex. Returns the count and the first faces of the first few such vertices, in
+ * vertex order.
  */
-function nonManifoldVertices(I: Uint32Array, nv: number, twin: Int32Array): { bad: number, first: number[] } {
-  const deg = new Uint32Array(nv)
-  const firstCorner = new Int32Array(nv).fill(-1)
-  for (let h = 0; h < I.length; h++) {
-    const v = I[h]!
-    deg[v]!++
-    if (firstCorner[v] === -1) firstCorner[v] = h
-  }
+function nonManifoldVertices(I: Uint32Array, corners: VertexCorners, twin: Int32Array): { bad: number, first: number[] } {
+  const { count: deg, firstFace } = corners
   let bad = 0
   const first: number[] = []
-  for (let v = 0; v < nv; v++) {
-    const h0 = firstCorner[v]! // the half-edge leaving v in its first face
+  for (let v = 0; v < deg.length; v++) {
+    const f = firstFace[v]!
+    const h0 = I[3 * f] === v ? 3 * f : I[3 * f + 1] === v ? 3 * f + 1 : 3 * f + 2 // half-edge leaving v
+    const n = deg[v]!
     let g = h0, steps = 0
     do {
       const p = g % 3 === 0 ? g + 2 : g - 1 // half-edge into v in the same face
       g = twin[p]!
       steps++
-    } while (g !== h0 && steps <= deg[v]!)
-    if (steps !== deg[v]) { bad++; if (first.length < MAX_LISTED) first.push((h0 / 3) | 0) }
+    } while (g !== h0 && steps <= n)
+    if (steps !== n) { bad++; if (first.length < MAX_LISTED) first.push(f) }
   }
   return { bad, first }
 }
@@ -663,23 +705,13 @@ export function findSelfIntersections(mesh: TriMesh, maxPairs = 10): { checked: 
 export function faceComponents(mesh: TriMesh): { label: Uint32Array, count: number } {
   const I = mesh.indices
   const nv = mesh.positions.length / 3
-  const parent = new Uint32Array(nv)
-  for (let v = 0; v < nv; v++) parent[v] = v
-  const root = (v: number): number => {
-    while (parent[v] !== v) { parent[v] = parent[parent[v]!]!; v = parent[v]! }
-    return v
-  }
-  // labels go by first face, so which root wins a union does not matter
-  for (let i = 0; i < I.length; i += 3) {
-    const a = root(I[i]!), b = root(I[i + 1]!)
-    if (a !== b) parent[b] = a
-    const c = root(I[i + 2]!)
-    if (c !== a) parent[c] = a
-  }
-  // flatten once, so each face's label is two array reads
-  for (let v = 0; v < nv; v++) parent[v] = root(v)
-  const lab = new Int32Array(nv).fill(-1)
+  const parent = vertexRoots(I, nv)
   const label = new Uint32Array(I.length / 3)
+  let roots = 0
+  for (let v = 0; v < nv; v++) if (parent[v] === v) roots++
+  // a single set (the rule on validated meshes, which have no unused vertices): all labels 0
+  if (roots === 1) return { label, count: 1 }
+  const lab = new Int32Array(nv).fill(-1)
   let count = 0
   for (let f = 0; f < label.length; f++) {
     const r = parent[I[3 * f]!]!
@@ -687,4 +719,30 @@ export function faceComponents(mesh: TriMesh): { label: Uint32Array, count: numb
     label[f] = lab[r]!
   }
   return { label, count }
+}
+
+/**
+ * Union-find over the vertices of faces I: each face joins its three corners; a root is linked
+ * under the smaller root (so every root is its set's smallest vertex) and paths are halved on the
+ * way. Returns parent with every entry pointing straight at its root.
+ */
+function vertexRoots(I: Uint32Array, nv: number): Uint32Array {
+  const parent = new Uint32Array(nv)
+  for (let v = 0; v < nv; v++) parent[v] = v
+  for (let i = 0; i < I.length; i += 3) {
+    const a = findRoot(parent, I[i]!), b = findRoot(parent, I[i + 1]!), c = findRoot(parent, I[i + 2]!)
+    const lo = a < b ? a : b, hi = a < b ? b : a
+    if (lo !== hi) parent[hi] = lo
+    if (c < lo) parent[lo] = c
+    else if (c !== lo) parent[c] = lo
+  }
+  // roots are the smallest vertex of their set, so one pass in vertex order flattens every path
+  for (let v = 0; v < nv; v++) parent[v] = parent[parent[v]!]!
+  return parent
+}
+
+/** Root of v, halving the path on the way. */
+function findRoot(parent: Uint32Array, v: number): number {
+  while (parent[v] !== v) { const g = parent[parent[v]!]!; parent[v] = g; v = g }
+  return v
 }
