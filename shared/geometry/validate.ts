@@ -127,14 +127,14 @@ export function validateMesh(mesh: TriMesh, opts: ValidateOptions = {}): { mesh:
 
   // 4. remap faces, drop collapsed and zero-area triangles
   const degFaces: number[] = []
-  const remapped = remapFaces(P0, I0, doWeld ? weldMap : null, reps, degFaces)
+  const remapped = remapFaces(P0, I0, doWeld ? weldMap : null, reps, nvWeld, degFaces)
   const I = remapped.I, faceOrigin = remapped.faceOrigin
   const nf = remapped.nf
   const degenerate = nf0 - nf
   if (nf === 0) throw new GeometryError('degenerate-face', `validateMesh: all ${nf0} triangles are degenerate (zero area)`, issuesFor(faceList(degFaces), 'zero-area face'))
 
   // 5. drop unreferenced vertices, build compact positions
-  const corners = cornersPerVertex(I, nvWeld)
+  const corners = remapped.corners
   const { used, count: nv } = renumberUsed(I, corners)
   let P: Float64Array
   if (!doWeld && nv === nvWeld) P = P0.slice() // nothing welded or dropped: a plain copy
@@ -307,19 +307,8 @@ function renumberUsed(I: Uint32Array, corners: VertexCorners): { used: Int32Arra
 interface VertexCorners {
   /** Face corners at each vertex (0: unreferenced). */
   count: Uint32Array
-  /** First face that uses each vertex, −1 when none. */
+  /** First face that uses each vertex (meaningless where count is 0). */
   firstFace: Int32Array
-}
-
-/** One pass over the faces: corners per vertex and each vertex's first face. */
-function cornersPerVertex(I: Uint32Array, nv: number): VertexCorners {
-  const count = new Uint32Array(nv)
-  const firstFace = new Int32Array(nv).fill(-1)
-  for (let h = 0; h < I.length; h++) {
-    const v = I[h]!
-    if (count[v]!++ === 0) firstFace[v] = (h / 3) | 0
-  }
-  return { count, firstFace }
 }
 
 function identityWeld(nv: number) {
@@ -390,11 +379,14 @@ function weld(P: Float64Array, nv: number, minx: number, miny: number, minz: num
  * Face remap after welding (weldMap null: no weld, indices kept). Drops collapsed triangles and
  * zero-area ones: |u × v|² ≤ 1e-24 · (longest edge)⁴, i.e. sin of the largest angle below 1e-12
  * (common practice, no source). Lists the first few dropped input triangles in `degFaces`.
+ * Also counts the kept faces' corners per vertex (nv: vertex count after welding).
  */
-function remapFaces(P0: Float64Array, I0: Uint32Array, weldMap: Uint32Array | null, reps: Uint32Array, degFaces: number[]) {
+function remapFaces(P0: Float64Array, I0: Uint32Array, weldMap: Uint32Array | null, reps: Uint32Array, nv: number, degFaces: number[]) {
   const nf0 = I0.length / 3
   let I = new Uint32Array(I0.length)
   let faceOrigin = new Uint32Array(nf0)
+  const corners: VertexCorners = { count: new Uint32Array(nv), firstFace: new Int32Array(nv) }
+  const { count, firstFace } = corners
   let nf = 0
   for (let f = 0; f < nf0; f++) {
     let a = I0[3 * f]!, b = I0[3 * f + 1]!, c = I0[3 * f + 2]!
@@ -403,10 +395,13 @@ function remapFaces(P0: Float64Array, I0: Uint32Array, weldMap: Uint32Array | nu
     if (deg) { if (degFaces.length < MAX_LISTED) degFaces.push(f); continue }
     I[3 * nf] = a; I[3 * nf + 1] = b; I[3 * nf + 2] = c
     faceOrigin[nf] = f
+    if (count[a]!++ === 0) firstFace[a] = nf
+    if (count[b]!++ === 0) firstFace[b] = nf
+    if (count[c]!++ === 0) firstFace[c] = nf
     nf++
   }
   if (nf < nf0 && nf > 0) { I = I.slice(0, 3 * nf); faceOrigin = faceOrigin.slice(0, nf) }
-  return { I, faceOrigin, nf }
+  return { I, faceOrigin, nf, corners }
 }
 
 /** True when the triangle of vertices a, b, c (indices into P, m) has zero area to working precision. */
@@ -568,9 +563,9 @@ export interface EdgeAnalysis {
  * on return) besides the result (5 bytes per half-edge). `skipDegenerate` ignores half-edges with equal ends.
  */
 export function analyseEdges(I: Uint32Array, nv: number, skipDegenerate = false): EdgeAnalysis {
-  const { start, bucket, upper } = bucketByLowerEnd(I, nv, skipDegenerate)
   const nh = I.length
-  const twin = new Int32Array(nh).fill(-1)
+  const twin = new Int32Array(nh) // every entry is written below: −1 for skipped and unpaired half-edges
+  const { start, bucket, upper } = bucketByLowerEnd(I, nv, skipDegenerate, twin)
   const sameDir = new Uint8Array(nh)
   let boundary = 0, nonManifold = 0, sameDirEdges = 0
   const boundaryHe: number[] = [], nonManifoldHe: number[] = []
@@ -588,9 +583,12 @@ export function analyseEdges(I: Uint32Array, nv: number, skipDegenerate = false)
         twin[h] = mate; twin[mate] = h
         if ((upper[i]! & 1) === mateDir) { sameDir[h] = 1; sameDir[mate] = 1; sameDirEdges++ }
       } else if (count === 1) {
+        twin[h] = -1
         boundary++
         keepFirst(boundaryHe, h, I)
       } else {
+        twin[h] = -1
+        for (let j = i + 1; j < s1; j++) if (upper[j]! >>> 1 === b) twin[bucket[j]!] = -1
         nonManifold++
         keepFirst(nonManifoldHe, h, I) // h is the edge's lowest half-edge id (ids ascend in a bucket)
       }
@@ -600,16 +598,13 @@ export function analyseEdges(I: Uint32Array, nv: number, skipDegenerate = false)
   return { twin, sameDir, sameDirEdges, boundary, nonManifold, boundaryFaces: boundaryHe.map(faceOf), nonManifoldFaces: nonManifoldHe.map(faceOf) }
 }
 
-/** Corner after the start corner of half-edge h, i.e. the half-edge's target corner. */
-function nextCorner(h: number): number { return h % 3 === 2 ? h - 2 : h + 1 }
-
 /**
  * Counting sort of half-edge ids by their smaller end vertex. On return bucket v is
  * bucket[start[v−1] .. start[v]) (start[−1] read as 0): the fill cursor ends at the next bucket.
  * upper[k] is 2 × (larger end of half-edge bucket[k]) + (1 when it runs from the larger end),
- * stored so that the matching reads no face.
+ * stored so that the matching reads no face. Skipped (degenerate) half-edges get twin −1.
  */
-function bucketByLowerEnd(I: Uint32Array, nv: number, skipDegenerate: boolean) {
+function bucketByLowerEnd(I: Uint32Array, nv: number, skipDegenerate: boolean, twin: Int32Array) {
   const nh = I.length
   const start = new Uint32Array(nv + 1)
   for (let h = 0; h < nh; h += 3) {
@@ -623,9 +618,9 @@ function bucketByLowerEnd(I: Uint32Array, nv: number, skipDegenerate: boolean) {
   const upper = new Uint32Array(start[nv]!)
   for (let h = 0; h < nh; h += 3) {
     const a = I[h]!, b = I[h + 1]!, c = I[h + 2]!
-    if (!skipDegenerate || a !== b) place(start, bucket, upper, h, a, b)
-    if (!skipDegenerate || b !== c) place(start, bucket, upper, h + 1, b, c)
-    if (!skipDegenerate || c !== a) place(start, bucket, upper, h + 2, c, a)
+    if (!skipDegenerate || a !== b) place(start, bucket, upper, h, a, b); else twin[h] = -1
+    if (!skipDegenerate || b !== c) place(start, bucket, upper, h + 1, b, c); else twin[h + 1] = -1
+    if (!skipDegenerate || c !== a) place(start, bucket, upper, h + 2, c, a); else twin[h + 2] = -1
   }
   return { start, bucket, upper }
 }
