@@ -563,6 +563,58 @@ export interface EdgeAnalysis {
  * on return) besides the result (5 bytes per half-edge). `skipDegenerate` ignores half-edges with equal ends.
  */
 export function analyseEdges(I: Uint32Array, nv: number, skipDegenerate = false): EdgeAnalysis {
+  return pairClosedConsistent(I, nv) ?? pairEdges(I, nv, skipDegenerate)
+}
+
+/**
+ * Fast path for the usual input, a closed mesh wound consistently: every edge a–b is crossed once
+ * as a → b and once as b → a. Only rising half-edges (lower → higher vertex) are bucketed, by
+ * their lower end (counting sort, larger end stored beside each id); each falling half-edge then
+ * looks in its lower end's bucket for its mate. Returns undefined as soon as the mesh is not of
+ * this kind (a degenerate half-edge, more rising than falling half-edges, a falling one with no
+ * or two candidate mates, a rising one claimed twice); the general pairing then decides. When it
+ * succeeds every rising half-edge was claimed exactly once, so each edge has exactly one
+ * half-edge each way: the result is the one the general pairing would give.
+ */
+function pairClosedConsistent(I: Uint32Array, nv: number): EdgeAnalysis | undefined {
+  const nh = I.length
+  const start = new Uint32Array(nv + 1)
+  for (let h = 0; h < nh; h += 3) {
+    const a = I[h]!, b = I[h + 1]!, c = I[h + 2]!
+    if (a === b || b === c || c === a) return undefined
+    if (a < b) start[a + 1]!++
+    if (b < c) start[b + 1]!++
+    if (c < a) start[c + 1]!++
+  }
+  for (let v = 0; v < nv; v++) start[v + 1] = start[v + 1]! + start[v]!
+  if (2 * start[nv]! !== nh) return undefined
+  const twin = new Int32Array(nh)
+  const bucket = new Uint32Array(nh / 2), upper = new Uint32Array(nh / 2)
+  for (let h = 0; h < nh; h++) {
+    const a = I[h]!, b = I[h % 3 === 2 ? h - 2 : h + 1]!
+    if (a > b) continue
+    const k = start[a]!++
+    bucket[k] = h
+    upper[k] = b
+    twin[h] = -1 // not claimed yet
+  }
+  // bucket of vertex v is now bucket[start[v−1] .. start[v]) (start[−1] read as 0)
+  for (let h = 0; h < nh; h++) {
+    const a = I[h]!, b = I[h % 3 === 2 ? h - 2 : h + 1]!
+    if (a < b) continue
+    let mate = -1
+    for (let k = b === 0 ? 0 : start[b - 1]!, k1 = start[b]!; k < k1; k++) {
+      if (upper[k] === a) { if (mate !== -1) return undefined; mate = bucket[k]! }
+    }
+    if (mate === -1 || twin[mate] !== -1) return undefined
+    twin[h] = mate
+    twin[mate] = h
+  }
+  return { twin, sameDir: new Uint8Array(nh), sameDirEdges: 0, boundary: 0, nonManifold: 0, boundaryFaces: [], nonManifoldFaces: [] }
+}
+
+/** General pairing (see `analyseEdges`): any mix of boundary, non-manifold and same-direction edges. */
+function pairEdges(I: Uint32Array, nv: number, skipDegenerate: boolean): EdgeAnalysis {
   const nh = I.length
   const twin = new Int32Array(nh) // every entry is written below: −1 for skipped and unpaired half-edges
   const { start, bucket, upper } = bucketByLowerEnd(I, nv, skipDegenerate, twin)
