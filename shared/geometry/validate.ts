@@ -122,12 +122,15 @@ export function validateMesh(mesh: TriMesh, opts: ValidateOptions = {}): { mesh:
   let doWeld = weldMode === 'always'
   let E0: EdgeAnalysis | undefined
   if (weldMode === 'auto') { E0 = analyseEdges(I0, nv0, true); doWeld = E0.boundary > 0 }
-  const { map: weldMap, count: nvWeld, reps } = doWeld ? weld(P0, nv0, minx, miny, minz, diag, tol) : identityWeld(nv0)
+  // without a weld, vertex numbers stay as they are (weldMap and reps null: the identity)
+  const welded = doWeld ? weld(P0, nv0, minx, miny, minz, diag, tol) : null
+  const weldMap = welded ? welded.map : null, reps = welded ? welded.reps : null
+  const nvWeld = welded ? welded.count : nv0
   const weldedVertices = nv0 - nvWeld
 
   // 4. remap faces, drop collapsed and zero-area triangles
   const degFaces: number[] = []
-  const remapped = remapFaces(P0, I0, doWeld ? weldMap : null, reps, nvWeld, degFaces)
+  const remapped = remapFaces(P0, I0, weldMap, reps, nvWeld, degFaces)
   const I = remapped.I, faceOrigin = remapped.faceOrigin
   const nf = remapped.nf
   const degenerate = nf0 - nf
@@ -141,8 +144,8 @@ export function validateMesh(mesh: TriMesh, opts: ValidateOptions = {}): { mesh:
   else {
     P = new Float64Array(nv * 3)
     for (let v = 0; v < nvWeld; v++) {
-      const u = used[v]!
-      if (u >= 0) { const r = 3 * reps[v]!; P[3 * u] = P0[r]!; P[3 * u + 1] = P0[r + 1]!; P[3 * u + 2] = P0[r + 2]! }
+      const u = used ? used[v]! : v
+      if (u >= 0) { const r = 3 * (reps ? reps[v]! : v); P[3 * u] = P0[r]!; P[3 * u + 1] = P0[r + 1]!; P[3 * u + 2] = P0[r + 2]! }
     }
   }
   const unreferenced = nvWeld - nv
@@ -161,7 +164,7 @@ export function validateMesh(mesh: TriMesh, opts: ValidateOptions = {}): { mesh:
     if (degenerate > 0) {
       // was it closed before the degenerate faces were dropped?
       const withDeg = new Uint32Array(nf0 * 3)
-      for (let i = 0; i < I0.length; i++) withDeg[i] = weldMap[I0[i]!]!
+      for (let i = 0; i < I0.length; i++) withDeg[i] = weldMap ? weldMap[I0[i]!]! : I0[i]!
       const E2 = analyseEdges(withDeg, nvWeld, true)
       if (E2.boundary === 0) {
         const d = faceList(degFaces)
@@ -285,22 +288,24 @@ function boundsBlock(P: Float64Array, from: number, to: number, box: Float64Arra
 
 /**
  * Renumber the vertices that some face uses, keeping their order, and rewrite I in place.
- * Returns used (old → new index, −1 when unused) and the number of used vertices.
+ * Returns used (old → new index, −1 when unused; null when all are used: the identity) and the
+ * number of used vertices.
  */
-function renumberUsed(I: Uint32Array, corners: VertexCorners): { used: Int32Array, count: number } {
+function renumberUsed(I: Uint32Array, corners: VertexCorners): { used: Int32Array | null, count: number } {
   const { count: deg, firstFace } = corners
   const nv = deg.length
-  const used = new Int32Array(nv)
   let count = 0
-  for (let v = 0; v < nv; v++) used[v] = deg[v]! > 0 ? count++ : -1
+  for (let v = 0; v < nv; v++) if (deg[v]! > 0) count++
   // renumbering keeps the vertex order, so with no unreferenced vertices it is the identity
-  if (count < nv) {
-    for (let i = 0; i < I.length; i++) I[i] = used[I[i]!]!
-    // the per-vertex tables follow the new numbering
-    for (let v = 0; v < nv; v++) if (used[v]! >= 0) { deg[used[v]!] = deg[v]!; firstFace[used[v]!] = firstFace[v]! }
-    corners.count = deg.subarray(0, count)
-    corners.firstFace = firstFace.subarray(0, count)
-  }
+  if (count === nv) return { used: null, count }
+  const used = new Int32Array(nv)
+  count = 0
+  for (let v = 0; v < nv; v++) used[v] = deg[v]! > 0 ? count++ : -1
+  for (let i = 0; i < I.length; i++) I[i] = used[I[i]!]!
+  // the per-vertex tables follow the new numbering
+  for (let v = 0; v < nv; v++) if (used[v]! >= 0) { deg[used[v]!] = deg[v]!; firstFace[used[v]!] = firstFace[v]! }
+  corners.count = deg.subarray(0, count)
+  corners.firstFace = firstFace.subarray(0, count)
   return { used, count }
 }
 
@@ -309,12 +314,6 @@ interface VertexCorners {
   count: Uint32Array
   /** First face that uses each vertex (meaningless where count is 0). */
   firstFace: Int32Array
-}
-
-function identityWeld(nv: number) {
-  const map = new Uint32Array(nv)
-  for (let v = 0; v < nv; v++) map[v] = v
-  return { map, count: nv, reps: map }
 }
 
 /**
@@ -381,7 +380,7 @@ function weld(P: Float64Array, nv: number, minx: number, miny: number, minz: num
  * (common practice, no source). Lists the first few dropped input triangles in `degFaces`.
  * Also counts the kept faces' corners per vertex (nv: vertex count after welding).
  */
-function remapFaces(P0: Float64Array, I0: Uint32Array, weldMap: Uint32Array | null, reps: Uint32Array, nv: number, degFaces: number[]) {
+function remapFaces(P0: Float64Array, I0: Uint32Array, weldMap: Uint32Array | null, reps: Uint32Array | null, nv: number, degFaces: number[]) {
   const nf0 = I0.length / 3
   let I = new Uint32Array(I0.length)
   let faceOrigin = new Uint32Array(nf0)
@@ -391,7 +390,7 @@ function remapFaces(P0: Float64Array, I0: Uint32Array, weldMap: Uint32Array | nu
   for (let f = 0; f < nf0; f++) {
     let a = I0[3 * f]!, b = I0[3 * f + 1]!, c = I0[3 * f + 2]!
     if (weldMap) { a = weldMap[a]!; b = weldMap[b]!; c = weldMap[c]! }
-    const deg = a === b || b === c || c === a || (weldMap ? zeroArea(P0, reps[a]!, reps[b]!, reps[c]!) : zeroArea(P0, a, b, c))
+    const deg = a === b || b === c || c === a || (reps ? zeroArea(P0, reps[a]!, reps[b]!, reps[c]!) : zeroArea(P0, a, b, c))
     if (deg) { if (degFaces.length < MAX_LISTED) degFaces.push(f); continue }
     I[3 * nf] = a; I[3 * nf + 1] = b; I[3 * nf + 2] = c
     faceOrigin[nf] = f
@@ -541,7 +540,7 @@ function nonManifoldVertices(I: Uint32Array, corners: VertexCorners, twin: Int32
 export interface EdgeAnalysis {
   /** Other half-edge on the same edge, or −1 (boundary / non-manifold). Half-edge 3f+k runs from corner k to k+1 of face f. */
   twin: Int32Array
-  /** 1 when the twin runs in the same direction (inconsistent winding). */
+  /** 1 when the twin runs in the same direction (inconsistent winding); empty when sameDirEdges is 0. */
   sameDir: Uint8Array
   /** Paired edges whose two half-edges run the same way (0: winding consistent everywhere). */
   sameDirEdges: number
@@ -590,27 +589,46 @@ function pairClosedConsistent(I: Uint32Array, nv: number): EdgeAnalysis | undefi
   if (2 * start[nv]! !== nh) return undefined
   const twin = new Int32Array(nh)
   const bucket = new Uint32Array(nh / 2), upper = new Uint32Array(nh / 2)
-  for (let h = 0; h < nh; h++) {
-    const a = I[h]!, b = I[h % 3 === 2 ? h - 2 : h + 1]!
-    if (a > b) continue
-    const k = start[a]!++
-    bucket[k] = h
-    upper[k] = b
-    twin[h] = -1 // not claimed yet
+  for (let h = 0; h < nh; h += 3) {
+    const a = I[h]!, b = I[h + 1]!, c = I[h + 2]!
+    if (a < b) putRising(start, bucket, upper, twin, h, a, b)
+    if (b < c) putRising(start, bucket, upper, twin, h + 1, b, c)
+    if (c < a) putRising(start, bucket, upper, twin, h + 2, c, a)
   }
   // bucket of vertex v is now bucket[start[v−1] .. start[v]) (start[−1] read as 0)
-  for (let h = 0; h < nh; h++) {
-    const a = I[h]!, b = I[h % 3 === 2 ? h - 2 : h + 1]!
-    if (a < b) continue
-    let mate = -1
-    for (let k = b === 0 ? 0 : start[b - 1]!, k1 = start[b]!; k < k1; k++) {
-      if (upper[k] === a) { if (mate !== -1) return undefined; mate = bucket[k]! }
-    }
-    if (mate === -1 || twin[mate] !== -1) return undefined
-    twin[h] = mate
-    twin[mate] = h
+  for (let h = 0; h < nh; h += 3) {
+    const a = I[h]!, b = I[h + 1]!, c = I[h + 2]!
+    if (a > b && !claimMate(start, bucket, upper, twin, h, b, a)) return undefined
+    if (b > c && !claimMate(start, bucket, upper, twin, h + 1, c, b)) return undefined
+    if (c > a && !claimMate(start, bucket, upper, twin, h + 2, a, c)) return undefined
   }
-  return { twin, sameDir: new Uint8Array(nh), sameDirEdges: 0, boundary: 0, nonManifold: 0, boundaryFaces: [], nonManifoldFaces: [] }
+  return { twin, sameDir: NO_SAME_DIR, sameDirEdges: 0, boundary: 0, nonManifold: 0, boundaryFaces: [], nonManifoldFaces: [] }
+}
+
+/** `sameDir` of a pairing with no same-direction edge (shared, never written). */
+const NO_SAME_DIR = new Uint8Array(0)
+
+/** Files rising half-edge h (lo → hi) in bucket lo, not yet claimed. */
+function putRising(start: Uint32Array, bucket: Uint32Array, upper: Uint32Array, twin: Int32Array, h: number, lo: number, hi: number): void {
+  const k = start[lo]!++
+  bucket[k] = h
+  upper[k] = hi
+  twin[h] = -1
+}
+
+/**
+ * Falling half-edge h (hi → lo) claims the single rising lo → hi in bucket lo; false when there is
+ * none, more than one, or it was already claimed.
+ */
+function claimMate(start: Uint32Array, bucket: Uint32Array, upper: Uint32Array, twin: Int32Array, h: number, lo: number, hi: number): boolean {
+  let mate = -1
+  for (let k = lo === 0 ? 0 : start[lo - 1]!, k1 = start[lo]!; k < k1; k++) {
+    if (upper[k] === hi) { if (mate !== -1) return false; mate = bucket[k]! }
+  }
+  if (mate === -1 || twin[mate] !== -1) return false
+  twin[h] = mate
+  twin[mate] = h
+  return true
 }
 
 /** General pairing (see `analyseEdges`): any mix of boundary, non-manifold and same-direction edges. */
