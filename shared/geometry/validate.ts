@@ -130,7 +130,8 @@ export function validateMesh(mesh: TriMesh, opts: ValidateOptions = {}): { mesh:
 
   // 4. remap faces, drop collapsed and zero-area triangles
   const degFaces: number[] = []
-  const remapped = remapFaces(P0, I0, weldMap, reps, nvWeld, degFaces)
+  const center = new Float64Array([(minx + maxx) / 2, (miny + maxy) / 2, (minz + maxz) / 2])
+  const remapped = remapFaces(P0, I0, weldMap, reps, nvWeld, center, degFaces)
   const I = remapped.I, faceOrigin = remapped.faceOrigin
   const nf = remapped.nf
   const degenerate = nf0 - nf
@@ -212,8 +213,10 @@ export function validateMesh(mesh: TriMesh, opts: ValidateOptions = {}): { mesh:
   const nComp = compSizes.length
 
   // 9. signed volume per component; reverse inside-out components
-  const cx = (minx + maxx) / 2, cy = (miny + maxy) / 2, cz = (minz + maxz) / 2
-  const vol = componentVolumes(P, I, comp, nComp, cx, cy, cz)
+  // one component, nothing flipped: the sum taken during the remap, same terms in the same order
+  const vol = nComp === 1 && flippedFaces === 0
+    ? Float64Array.of(remapped.volSum)
+    : componentVolumes(P, I, comp, nComp, center[0]!, center[1]!, center[2]!)
   let invertedComponents = 0
   let volume = 0
   for (let c = 0; c < nComp; c++) { if (vol[c]! < 0) invertedComponents++; volume += Math.abs(vol[c]!) / 6 }
@@ -378,9 +381,13 @@ function weld(P: Float64Array, nv: number, minx: number, miny: number, minz: num
  * Face remap after welding (weldMap null: no weld, indices kept). Drops collapsed triangles and
  * zero-area ones: |u × v|² ≤ 1e-24 · (longest edge)⁴, i.e. sin of the largest angle below 1e-12
  * (common practice, no source). Lists the first few dropped input triangles in `degFaces`.
- * Also counts the kept faces' corners per vertex (nv: vertex count after welding).
+ * Also counts the kept faces' corners per vertex (nv: vertex count after welding) and sums the
+ * kept faces' `addTriple` about center in face order (volSum, m³ × 6), which is the volume sum of
+ * `componentVolumes` when nothing is flipped and there is one component.
  */
-function remapFaces(P0: Float64Array, I0: Uint32Array, weldMap: Uint32Array | null, reps: Uint32Array | null, nv: number, degFaces: number[]) {
+function remapFaces(P0: Float64Array, I0: Uint32Array, weldMap: Uint32Array | null, reps: Uint32Array | null, nv: number, center: Float64Array, degFaces: number[]) {
+  const cx = center[0]!, cy = center[1]!, cz = center[2]!
+  let volSum = 0
   const nf0 = I0.length / 3
   let I = new Uint32Array(I0.length)
   let faceOrigin = new Uint32Array(nf0)
@@ -390,8 +397,9 @@ function remapFaces(P0: Float64Array, I0: Uint32Array, weldMap: Uint32Array | nu
   for (let f = 0; f < nf0; f++) {
     let a = I0[3 * f]!, b = I0[3 * f + 1]!, c = I0[3 * f + 2]!
     if (weldMap) { a = weldMap[a]!; b = weldMap[b]!; c = weldMap[c]! }
-    const deg = a === b || b === c || c === a || (reps ? zeroArea(P0, reps[a]!, reps[b]!, reps[c]!) : zeroArea(P0, a, b, c))
-    if (deg) { if (degFaces.length < MAX_LISTED) degFaces.push(f); continue }
+    const ra = reps ? reps[a]! : a, rb = reps ? reps[b]! : b, rc = reps ? reps[c]! : c
+    if (a === b || b === c || c === a || zeroArea(P0, ra, rb, rc)) { if (degFaces.length < MAX_LISTED) degFaces.push(f); continue }
+    volSum = addTriple(volSum, P0, 3 * ra, 3 * rb, 3 * rc, cx, cy, cz)
     I[3 * nf] = a; I[3 * nf + 1] = b; I[3 * nf + 2] = c
     faceOrigin[nf] = f
     if (count[a]!++ === 0) firstFace[a] = nf
@@ -400,7 +408,7 @@ function remapFaces(P0: Float64Array, I0: Uint32Array, weldMap: Uint32Array | nu
     nf++
   }
   if (nf < nf0 && nf > 0) { I = I.slice(0, 3 * nf); faceOrigin = faceOrigin.slice(0, nf) }
-  return { I, faceOrigin, nf, corners }
+  return { I, faceOrigin, nf, corners, volSum }
 }
 
 /** True when the triangle of vertices a, b, c (indices into P, m) has zero area to working precision. */
@@ -474,13 +482,20 @@ function applyFlips(I: Uint32Array, flip: Int8Array, comp: Uint32Array, invert: 
 function componentVolumes(P: Float64Array, I: Uint32Array, comp: Uint32Array, nComp: number, cx: number, cy: number, cz: number): Float64Array {
   const vol = new Float64Array(nComp)
   for (let f = 0; f < comp.length; f++) {
-    const a = 3 * I[3 * f]!, b = 3 * I[3 * f + 1]!, c = 3 * I[3 * f + 2]!
-    const ax = P[a]! - cx, ay = P[a + 1]! - cy, az = P[a + 2]! - cz
-    const bx = P[b]! - cx, by = P[b + 1]! - cy, bz = P[b + 2]! - cz
-    const qx = P[c]! - cx, qy = P[c + 1]! - cy, qz = P[c + 2]! - cz
-    vol[comp[f]!] = vol[comp[f]!]! + ax * (by * qz - bz * qy) + ay * (bz * qx - bx * qz) + az * (bx * qy - by * qx)
+    vol[comp[f]!] = addTriple(vol[comp[f]!]!, P, 3 * I[3 * f]!, 3 * I[3 * f + 1]!, 3 * I[3 * f + 2]!, cx, cy, cz)
   }
   return vol
+}
+
+/**
+ * acc + the triple product (a − c)·((b − c) × (q − c)) of the points at offsets a, b, q of P, with
+ * c = (cx, cy, cz), m³; added term by term (one rounding order shared by every volume sum here).
+ */
+function addTriple(acc: number, P: Float64Array, a: number, b: number, q: number, cx: number, cy: number, cz: number): number {
+  const ax = P[a]! - cx, ay = P[a + 1]! - cy, az = P[a + 2]! - cz
+  const bx = P[b]! - cx, by = P[b + 1]! - cy, bz = P[b + 2]! - cz
+  const qx = P[q]! - cx, qy = P[q + 1]! - cy, qz = P[q + 2]! - cz
+  return acc + ax * (by * qz - bz * qy) + ay * (bz * qx - bx * qz) + az * (bx * qy - by * qx)
 }
 
 /** Number of faces per component label 0 .. n−1. */
