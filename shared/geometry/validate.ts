@@ -45,6 +45,18 @@ export interface ValidationReport {
   faceOrigin: Uint32Array
 }
 
+/** What `validateMesh` returns. */
+export interface ValidatedMesh {
+  mesh: TriMesh
+  report: ValidationReport
+  /**
+   * Component of each returned triangle (0 .. components − 1, numbered in order of first
+   * triangle): the same labels `faceComponents(mesh)` gives for the returned mesh, so callers
+   * can skip recomputing them.
+   */
+  componentLabels: Uint32Array
+}
+
 export interface ValidateOptions {
   /** Weld distance as a fraction of the bounding-box diagonal (default 1e-9; 0 welds exact duplicates only). */
   weldTolerance?: number
@@ -70,7 +82,7 @@ function issuesFor(faces: ArrayLike<number>, msg: string, kind = 'faces'): { pat
  *   Faces are named by the file's own numbering (`mesh.sourceFace`, from 0) when the mesh came
  *   from a reader, else by input triangle index (from 0); vertices by input index (from 0).
  */
-export function validateMesh(mesh: TriMesh, opts: ValidateOptions = {}): { mesh: TriMesh, report: ValidationReport } {
+export function validateMesh(mesh: TriMesh, opts: ValidateOptions = {}): ValidatedMesh {
   const P0 = mesh.positions
   const I0 = mesh.indices
   if (P0.length % 3 !== 0 || I0.length % 3 !== 0) throw new GeometryError('bad-mesh', 'validateMesh: positions and indices lengths must be multiples of 3')
@@ -260,7 +272,7 @@ export function validateMesh(mesh: TriMesh, opts: ValidateOptions = {}): { mesh:
     selfIntersections,
     faceOrigin,
   }
-  return { mesh: { positions: P, indices: I }, report }
+  return { mesh: { positions: P, indices: I }, report, componentLabels: comp }
 }
 
 /** Vertices per call of `boundsBlock`. */
