@@ -113,9 +113,7 @@ export function validateMesh(mesh: TriMesh, opts: ValidateOptions = {}): Validat
     let n = 0
     const first: number[] = []
     // one cheap pass for the largest index; the detailed pass only when something is out of range
-    let maxIndex = 0
-    for (let i = 0; i < I0.length; i++) if (I0[i]! > maxIndex) maxIndex = I0[i]!
-    if (maxIndex >= nv0) {
+    if (largest(I0) >= nv0) {
       for (let i = 0; i < I0.length; i++) {
         if (I0[i]! >= nv0) { n++; const f = (i / 3) | 0; if (first.length < MAX_LISTED && first[first.length - 1] !== f) first.push(f) }
       }
@@ -273,6 +271,13 @@ export function validateMesh(mesh: TriMesh, opts: ValidateOptions = {}): Validat
     faceOrigin,
   }
   return { mesh: { positions: P, indices: I }, report, componentLabels: comp }
+}
+
+/** Largest entry of I (0 when empty); a small function so that it is optimised on its own. */
+function largest(I: Uint32Array): number {
+  let m = 0
+  for (let i = 0; i < I.length; i++) if (I[i]! > m) m = I[i]!
+  return m
 }
 
 /** Vertices per call of `boundsBlock`. */
