@@ -165,7 +165,7 @@ export function validateMesh(mesh: TriMesh, opts: ValidateOptions = {}): Validat
 
   // 6. edges
   // the first analysis is still valid when nothing was welded, dropped or renumbered
-  let E = E0 && !doWeld && nf === nf0 && nv === nv0 ? E0 : analyseEdges(I, nv)
+  const E = E0 && !doWeld && nf === nf0 && nv === nv0 ? E0 : analyseEdges(I, nv)
   if (E.boundary > 0 || E.nonManifold > 0) {
     if (E.nonManifold > 0) {
       const f = faceList(E.nonManifoldFaces.map(x => faceOrigin[x]!))
