@@ -403,15 +403,49 @@ function weld(P: Float64Array, nv: number, minx: number, miny: number, minz: num
  * `componentVolumes` when nothing is flipped and there is one component.
  */
 function remapFaces(P0: Float64Array, I0: Uint32Array, weldMap: Uint32Array | null, reps: Uint32Array | null, nv: number, center: Float64Array, degFaces: number[]) {
-  const cx = center[0]!, cy = center[1]!, cz = center[2]!
-  let volSum = 0
   const nf0 = I0.length / 3
-  let I = new Uint32Array(I0.length)
-  let faceOrigin = new Uint32Array(nf0)
-  const corners: VertexCorners = { count: new Uint32Array(nv), firstFace: new Int32Array(nv) }
-  const { count, firstFace } = corners
-  let nf = 0
-  for (let f = 0; f < nf0; f++) {
+  const r: RemapState = {
+    P0, I0, weldMap, reps, center, degFaces,
+    I: new Uint32Array(I0.length),
+    faceOrigin: new Uint32Array(nf0),
+    corners: { count: new Uint32Array(nv), firstFace: new Int32Array(nv) },
+    nf: 0,
+    volSum: 0,
+  }
+  for (let f = 0; f < nf0; f += FACE_BLOCK) remapBlock(r, f, Math.min(nf0, f + FACE_BLOCK))
+  let { I, faceOrigin } = r
+  const { nf, corners, volSum } = r
+  if (nf < nf0 && nf > 0) { I = I.slice(0, 3 * nf); faceOrigin = faceOrigin.slice(0, nf) }
+  return { I, faceOrigin, nf, corners, volSum }
+}
+
+/** Faces per call of `remapBlock` (called per block so that V8 optimises it early, as `boundsBlock`). */
+const FACE_BLOCK = 16384
+
+interface RemapState {
+  P0: Float64Array
+  I0: Uint32Array
+  weldMap: Uint32Array | null
+  reps: Uint32Array | null
+  /** Bounding-box centre, m. */
+  center: Float64Array
+  degFaces: number[]
+  I: Uint32Array
+  faceOrigin: Uint32Array
+  corners: VertexCorners
+  /** Faces kept so far. */
+  nf: number
+  /** Running volume sum (see `remapFaces`), m³ × 6. */
+  volSum: number
+}
+
+/** Input faces from .. to−1 of `remapFaces`. */
+function remapBlock(r: RemapState, from: number, to: number): void {
+  const { P0, I0, weldMap, reps, degFaces, I, faceOrigin } = r
+  const { count, firstFace } = r.corners
+  const cx = r.center[0]!, cy = r.center[1]!, cz = r.center[2]!
+  let nf = r.nf, volSum = r.volSum
+  for (let f = from; f < to; f++) {
     let a = I0[3 * f]!, b = I0[3 * f + 1]!, c = I0[3 * f + 2]!
     if (weldMap) { a = weldMap[a]!; b = weldMap[b]!; c = weldMap[c]! }
     const ra = reps ? reps[a]! : a, rb = reps ? reps[b]! : b, rc = reps ? reps[c]! : c
@@ -424,8 +458,8 @@ function remapFaces(P0: Float64Array, I0: Uint32Array, weldMap: Uint32Array | nu
     if (count[c]!++ === 0) firstFace[c] = nf
     nf++
   }
-  if (nf < nf0 && nf > 0) { I = I.slice(0, 3 * nf); faceOrigin = faceOrigin.slice(0, nf) }
-  return { I, faceOrigin, nf, corners, volSum }
+  r.nf = nf
+  r.volSum = volSum
 }
 
 /** True when the triangle of vertices a, b, c (indices into P, m) has zero area to working precision. */
