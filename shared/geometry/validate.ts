@@ -45,6 +45,18 @@ export interface ValidationReport {
   faceOrigin: Uint32Array
 }
 
+/** What `validateMesh` returns. */
+export interface ValidatedMesh {
+  mesh: TriMesh
+  report: ValidationReport
+  /**
+   * Component of each returned triangle (0 .. components − 1, numbered in order of first
+   * triangle): the same labels `faceComponents(mesh)` gives for the returned mesh, so callers
+   * can skip recomputing them.
+   */
+  componentLabels: Uint32Array
+}
+
 export interface ValidateOptions {
   /** Weld distance as a fraction of the bounding-box diagonal (default 1e-9; 0 welds exact duplicates only). */
   weldTolerance?: number
@@ -70,7 +82,7 @@ function issuesFor(faces: ArrayLike<number>, msg: string, kind = 'faces'): { pat
  *   Faces are named by the file's own numbering (`mesh.sourceFace`, from 0) when the mesh came
  *   from a reader, else by input triangle index (from 0); vertices by input index (from 0).
  */
-export function validateMesh(mesh: TriMesh, opts: ValidateOptions = {}): { mesh: TriMesh, report: ValidationReport } {
+export function validateMesh(mesh: TriMesh, opts: ValidateOptions = {}): ValidatedMesh {
   const P0 = mesh.positions
   const I0 = mesh.indices
   if (P0.length % 3 !== 0 || I0.length % 3 !== 0) throw new GeometryError('bad-mesh', 'validateMesh: positions and indices lengths must be multiples of 3')
@@ -101,9 +113,7 @@ export function validateMesh(mesh: TriMesh, opts: ValidateOptions = {}): { mesh:
     let n = 0
     const first: number[] = []
     // one cheap pass for the largest index; the detailed pass only when something is out of range
-    let maxIndex = 0
-    for (let i = 0; i < I0.length; i++) if (I0[i]! > maxIndex) maxIndex = I0[i]!
-    if (maxIndex >= nv0) {
+    if (largest(I0) >= nv0) {
       for (let i = 0; i < I0.length; i++) {
         if (I0[i]! >= nv0) { n++; const f = (i / 3) | 0; if (first.length < MAX_LISTED && first[first.length - 1] !== f) first.push(f) }
       }
@@ -122,45 +132,31 @@ export function validateMesh(mesh: TriMesh, opts: ValidateOptions = {}): { mesh:
   let doWeld = weldMode === 'always'
   let E0: EdgeAnalysis | undefined
   if (weldMode === 'auto') { E0 = analyseEdges(I0, nv0, true); doWeld = E0.boundary > 0 }
-  const { map: weldMap, count: nvWeld, reps } = doWeld ? weld(P0, nv0, minx, miny, minz, diag, tol) : identityWeld(nv0)
+  // without a weld, vertex numbers stay as they are (weldMap and reps null: the identity)
+  const welded = doWeld ? weld(P0, nv0, minx, miny, minz, diag, tol) : null
+  const weldMap = welded ? welded.map : null, reps = welded ? welded.reps : null
+  const nvWeld = welded ? welded.count : nv0
   const weldedVertices = nv0 - nvWeld
 
   // 4. remap faces, drop collapsed and zero-area triangles
-  let I = new Uint32Array(I0.length)
-  let faceOrigin = new Uint32Array(nf0)
-  let nf = 0
-  let degenerate = 0
   const degFaces: number[] = []
-  for (let f = 0; f < nf0; f++) {
-    const a = weldMap[I0[3 * f]!]!, b = weldMap[I0[3 * f + 1]!]!, c = weldMap[I0[3 * f + 2]!]!
-    let deg = a === b || b === c || c === a
-    if (!deg) {
-      const ra = 3 * reps[a]!, rb = 3 * reps[b]!, rc = 3 * reps[c]!
-      const ux = P0[rb]! - P0[ra]!, uy = P0[rb + 1]! - P0[ra + 1]!, uz = P0[rb + 2]! - P0[ra + 2]!
-      const vx = P0[rc]! - P0[ra]!, vy = P0[rc + 1]! - P0[ra + 1]!, vz = P0[rc + 2]! - P0[ra + 2]!
-      const wx = vx - ux, wy = vy - uy, wz = vz - uz
-      const cx = uy * vz - uz * vy, cy = uz * vx - ux * vz, cz = ux * vy - uy * vx
-      const cross2 = cx * cx + cy * cy + cz * cz
-      const e2 = Math.max(ux * ux + uy * uy + uz * uz, vx * vx + vy * vy + vz * vz, wx * wx + wy * wy + wz * wz)
-      deg = cross2 <= 1e-24 * e2 * e2
-    }
-    if (deg) { degenerate++; if (degFaces.length < MAX_LISTED) degFaces.push(f); continue }
-    I[3 * nf] = a; I[3 * nf + 1] = b; I[3 * nf + 2] = c
-    faceOrigin[nf] = f
-    nf++
-  }
+  const center = new Float64Array([(minx + maxx) / 2, (miny + maxy) / 2, (minz + maxz) / 2])
+  const remapped = remapFaces(P0, I0, weldMap, reps, nvWeld, center, degFaces)
+  const I = remapped.I, faceOrigin = remapped.faceOrigin
+  const nf = remapped.nf
+  const degenerate = nf0 - nf
   if (nf === 0) throw new GeometryError('degenerate-face', `validateMesh: all ${nf0} triangles are degenerate (zero area)`, issuesFor(faceList(degFaces), 'zero-area face'))
-  if (nf < nf0) { I = I.slice(0, 3 * nf); faceOrigin = faceOrigin.slice(0, nf) }
 
   // 5. drop unreferenced vertices, build compact positions
-  const { used, count: nv } = renumberUsed(I, nvWeld)
+  const corners = remapped.corners
+  const { used, count: nv } = renumberUsed(I, corners)
   let P: Float64Array
   if (!doWeld && nv === nvWeld) P = P0.slice() // nothing welded or dropped: a plain copy
   else {
     P = new Float64Array(nv * 3)
     for (let v = 0; v < nvWeld; v++) {
-      const u = used[v]!
-      if (u >= 0) { const r = 3 * reps[v]!; P[3 * u] = P0[r]!; P[3 * u + 1] = P0[r + 1]!; P[3 * u + 2] = P0[r + 2]! }
+      const u = used ? used[v]! : v
+      if (u >= 0) { const r = 3 * (reps ? reps[v]! : v); P[3 * u] = P0[r]!; P[3 * u + 1] = P0[r + 1]!; P[3 * u + 2] = P0[r + 2]! }
     }
   }
   const unreferenced = nvWeld - nv
@@ -169,7 +165,7 @@ export function validateMesh(mesh: TriMesh, opts: ValidateOptions = {}): { mesh:
 
   // 6. edges
   // the first analysis is still valid when nothing was welded, dropped or renumbered
-  let E = E0 && !doWeld && nf === nf0 && nv === nv0 ? E0 : analyseEdges(I, nv)
+  const E = E0 && !doWeld && nf === nf0 && nv === nv0 ? E0 : analyseEdges(I, nv)
   if (E.boundary > 0 || E.nonManifold > 0) {
     if (E.nonManifold > 0) {
       const f = faceList(E.nonManifoldFaces.map(x => faceOrigin[x]!))
@@ -179,7 +175,7 @@ export function validateMesh(mesh: TriMesh, opts: ValidateOptions = {}): { mesh:
     if (degenerate > 0) {
       // was it closed before the degenerate faces were dropped?
       const withDeg = new Uint32Array(nf0 * 3)
-      for (let i = 0; i < I0.length; i++) withDeg[i] = weldMap[I0[i]!]!
+      for (let i = 0; i < I0.length; i++) withDeg[i] = weldMap ? weldMap[I0[i]!]! : I0[i]!
       const E2 = analyseEdges(withDeg, nvWeld, true)
       if (E2.boundary === 0) {
         const d = faceList(degFaces)
@@ -190,93 +186,52 @@ export function validateMesh(mesh: TriMesh, opts: ValidateOptions = {}): { mesh:
   }
   if (degenerate > 0) warnings.push({ code: 'degenerate-faces', message: `${degenerate} zero-area triangles were dropped; first ${FACES} with them: ${faceList(degFaces).join(', ')}${numbering}` })
 
-  // 7. orientation: BFS over faces through edges; components
-  const flip = new Int8Array(nf).fill(-1)
-  const comp = new Int32Array(nf)
-  const queue = new Uint32Array(nf)
-  const compSizes: number[] = []
-  const compFlips: number[] = []
-  const badOrient: number[] = []
-  let nComp = 0
-  const twinA = E.twin, sameA = E.sameDir
-  for (let s = 0; s < nf; s++) {
-    if (flip[s] !== -1) continue
-    let head = 0, tail = 0
-    queue[tail++] = s
-    flip[s] = 0
-    comp[s] = nComp
-    let size = 0, flips = 0
-    while (head < tail) {
-      const f = queue[head++]!
-      size++
-      const ff = flip[f]!
-      flips += ff
-      for (let k = 0; k < 3; k++) {
-        const h = 3 * f + k
-        const g = (twinA[h]! / 3) | 0
-        const want = sameA[h] ? 1 - ff : ff
-        if (flip[g] === -1) { flip[g] = want; comp[g] = nComp; queue[tail++] = g } else if (flip[g] !== want && badOrient.length < MAX_LISTED) badOrient.push(faceOrigin[g]!)
-      }
-    }
-    compSizes.push(size)
-    compFlips.push(flips)
-    nComp++
-  }
-  if (badOrient.length > 0) {
-    const f = faceList(badOrient)
-    throw new GeometryError('non-orientable', `validateMesh: the surface is not orientable (no consistent winding exists, e.g. a Möbius band); ${FACES} involved include: ${f.join(', ')}${numbering}`, issuesFor(f, 'inconsistent winding that cannot be fixed'))
-  }
-  // keep the majority winding of each component
-  const invertBfs = compFlips.map((fl, c) => fl * 2 > compSizes[c]!)
-  let flippedFaces = 0
-  for (let f = 0; f < nf; f++) {
-    let fl = flip[f]!
-    if (invertBfs[comp[f]!]) fl = 1 - fl
-    flip[f] = fl
-    if (fl) { flippedFaces++; const t = I[3 * f + 1]!; I[3 * f + 1] = I[3 * f + 2]!; I[3 * f + 2] = t }
-  }
-  if (flippedFaces > 0) {
-    warnings.push({ code: 'inconsistent-winding', message: `${flippedFaces} faces had a winding opposite to their neighbours and were reversed` })
-    E = analyseEdges(I, nv)
-  }
-
-  // 8. vertex fans must be single disks
-  {
-    const { start, he, twin } = E
-    let bad = 0
-    const first: number[] = []
-    for (let v = 0; v < nv; v++) {
-      const deg = start[v + 1]! - start[v]!
-      const h0 = he[start[v]!]!
-      let g = h0, steps = 0
-      do {
-        const p = g % 3 === 0 ? g + 2 : g - 1 // half-edge into v in the same face
-        g = twin[p]!
-        steps++
-      } while (g !== h0 && steps <= deg)
-      if (steps !== deg) { bad++; if (first.length < MAX_LISTED) first.push(faceOrigin[(h0 / 3) | 0]!) }
-    }
-    const f = faceList(first)
+  // 7–8. orientation, components, vertex fans
+  const checkFans = () => {
+    const { bad, first } = nonManifoldVertices(I, corners, E.twin)
+    const f = faceList(first.map(x => faceOrigin[x]!))
     if (bad > 0) throw new GeometryError('non-manifold-vertex', `validateMesh: ${bad} vertices are non-manifold (their faces form more than one fan, e.g. two bodies touching at a point); first ${FACES} at such vertices: ${f.join(', ')}${numbering}`, issuesFor(f, 'face at a non-manifold vertex'))
   }
+  let comp: Uint32Array, compSizes: number[], flippedFaces = 0
+  if (E.sameDirEdges === 0) {
+    // Winding already consistent: nothing to flip and nothing non-orientable, so the fan check
+    // can come first. Once every fan is a single disk, faces sharing a vertex are also joined
+    // through edges, and a union-find on vertices gives the components the search would give.
+    checkFans()
+    const fc = faceComponents({ positions: P, indices: I })
+    comp = fc.label
+    compSizes = countLabels(comp, fc.count)
+  } else {
+    // search over faces through edges: flips relative to each component's first face
+    const o = orientComponents(nf, E.twin, E.sameDir)
+    comp = o.comp
+    compSizes = o.compSizes
+    const badOrient = o.badFaces.map(g => faceOrigin[g]!)
+    if (badOrient.length > 0) {
+      const f = faceList(badOrient)
+      throw new GeometryError('non-orientable', `validateMesh: the surface is not orientable (no consistent winding exists, e.g. a Möbius band); ${FACES} involved include: ${f.join(', ')}${numbering}`, issuesFor(f, 'inconsistent winding that cannot be fixed'))
+    }
+    // keep the majority winding of each component
+    const invertBfs = Uint8Array.from(o.compFlips, (fl, c) => (fl * 2 > compSizes[c]! ? 1 : 0))
+    flippedFaces = applyFlips(I, o.flip, comp, invertBfs)
+    if (flippedFaces > 0) {
+      warnings.push({ code: 'inconsistent-winding', message: `${flippedFaces} faces had a winding opposite to their neighbours and were reversed` })
+      reflectTwins(E.twin, o.flip)
+    }
+    checkFans()
+  }
+  const nComp = compSizes.length
 
   // 9. signed volume per component; reverse inside-out components
-  const cx = (minx + maxx) / 2, cy = (miny + maxy) / 2, cz = (minz + maxz) / 2
-  const vol = new Float64Array(nComp)
-  for (let f = 0; f < nf; f++) {
-    const a = 3 * I[3 * f]!, b = 3 * I[3 * f + 1]!, c = 3 * I[3 * f + 2]!
-    const ax = P[a]! - cx, ay = P[a + 1]! - cy, az = P[a + 2]! - cz
-    const bx = P[b]! - cx, by = P[b + 1]! - cy, bz = P[b + 2]! - cz
-    const qx = P[c]! - cx, qy = P[c + 1]! - cy, qz = P[c + 2]! - cz
-    vol[comp[f]!] = vol[comp[f]!]! + ax * (by * qz - bz * qy) + ay * (bz * qx - bx * qz) + az * (bx * qy - by * qx)
-  }
+  // one component, nothing flipped: the sum taken during the remap, same terms in the same order
+  const vol = nComp === 1 && flippedFaces === 0
+    ? Float64Array.of(remapped.volSum)
+    : componentVolumes(P, I, comp, nComp, center[0]!, center[1]!, center[2]!)
   let invertedComponents = 0
   let volume = 0
   for (let c = 0; c < nComp; c++) { if (vol[c]! < 0) invertedComponents++; volume += Math.abs(vol[c]!) / 6 }
   if (invertedComponents > 0) {
-    for (let f = 0; f < nf; f++) {
-      if (vol[comp[f]!]! < 0) { const t = I[3 * f + 1]!; I[3 * f + 1] = I[3 * f + 2]!; I[3 * f + 2] = t }
-    }
+    reverseInverted(I, comp, vol)
     warnings.push({ code: 'inverted-orientation', message: `${invertedComponents} of ${nComp} components were inside-out (negative volume) and were reversed` })
   }
   const componentFaceCounts = compSizes.slice().sort((a, b) => b - a)
@@ -315,7 +270,14 @@ export function validateMesh(mesh: TriMesh, opts: ValidateOptions = {}): { mesh:
     selfIntersections,
     faceOrigin,
   }
-  return { mesh: { positions: P, indices: I }, report }
+  return { mesh: { positions: P, indices: I }, report, componentLabels: comp }
+}
+
+/** Largest entry of I (0 when empty); a small function so that it is optimised on its own. */
+function largest(I: Uint32Array): number {
+  let m = 0
+  for (let i = 0; i < I.length; i++) if (I[i]! > m) m = I[i]!
+  return m
 }
 
 /** Vertices per call of `boundsBlock`. */
@@ -346,22 +308,32 @@ function boundsBlock(P: Float64Array, from: number, to: number, box: Float64Arra
 
 /**
  * Renumber the vertices that some face uses, keeping their order, and rewrite I in place.
- * Returns used (old → new index, −1 when unused) and the number of used vertices.
+ * Returns used (old → new index, −1 when unused; null when all are used: the identity) and the
+ * number of used vertices.
  */
-function renumberUsed(I: Uint32Array, nv: number): { used: Int32Array, count: number } {
-  const used = new Int32Array(nv).fill(-1)
-  for (let i = 0; i < I.length; i++) used[I[i]!] = 0
+function renumberUsed(I: Uint32Array, corners: VertexCorners): { used: Int32Array | null, count: number } {
+  const { count: deg, firstFace } = corners
+  const nv = deg.length
   let count = 0
-  for (let v = 0; v < nv; v++) if (used[v] === 0) used[v] = count++
+  for (let v = 0; v < nv; v++) if (deg[v]! > 0) count++
   // renumbering keeps the vertex order, so with no unreferenced vertices it is the identity
-  if (count < nv) for (let i = 0; i < I.length; i++) I[i] = used[I[i]!]!
+  if (count === nv) return { used: null, count }
+  const used = new Int32Array(nv)
+  count = 0
+  for (let v = 0; v < nv; v++) used[v] = deg[v]! > 0 ? count++ : -1
+  for (let i = 0; i < I.length; i++) I[i] = used[I[i]!]!
+  // the per-vertex tables follow the new numbering
+  for (let v = 0; v < nv; v++) if (used[v]! >= 0) { deg[used[v]!] = deg[v]!; firstFace[used[v]!] = firstFace[v]! }
+  corners.count = deg.subarray(0, count)
+  corners.firstFace = firstFace.subarray(0, count)
   return { used, count }
 }
 
-function identityWeld(nv: number) {
-  const map = new Uint32Array(nv)
-  for (let v = 0; v < nv; v++) map[v] = v
-  return { map, count: nv, reps: map }
+interface VertexCorners {
+  /** Face corners at each vertex (0: unreferenced). */
+  count: Uint32Array
+  /** First face that uses each vertex (meaningless where count is 0). */
+  firstFace: Int32Array
 }
 
 /**
@@ -422,103 +394,392 @@ function weld(P: Float64Array, nv: number, minx: number, miny: number, minz: num
   return { map, count, reps }
 }
 
+/**
+ * Face remap after welding (weldMap null: no weld, indices kept). Drops collapsed triangles and
+ * zero-area ones: |u × v|² ≤ 1e-24 · (longest edge)⁴, i.e. sin of the largest angle below 1e-12
+ * (common practice, no source). Lists the first few dropped input triangles in `degFaces`.
+ * Also counts the kept faces' corners per vertex (nv: vertex count after welding) and sums the
+ * kept faces' `addTriple` about center in face order (volSum, m³ × 6), which is the volume sum of
+ * `componentVolumes` when nothing is flipped and there is one component.
+ */
+function remapFaces(P0: Float64Array, I0: Uint32Array, weldMap: Uint32Array | null, reps: Uint32Array | null, nv: number, center: Float64Array, degFaces: number[]) {
+  const nf0 = I0.length / 3
+  const r: RemapState = {
+    P0, I0, weldMap, reps, center, degFaces,
+    I: new Uint32Array(I0.length),
+    faceOrigin: new Uint32Array(nf0),
+    corners: { count: new Uint32Array(nv), firstFace: new Int32Array(nv) },
+    nf: 0,
+    volSum: 0,
+  }
+  for (let f = 0; f < nf0; f += FACE_BLOCK) remapBlock(r, f, Math.min(nf0, f + FACE_BLOCK))
+  let { I, faceOrigin } = r
+  const { nf, corners, volSum } = r
+  if (nf < nf0 && nf > 0) { I = I.slice(0, 3 * nf); faceOrigin = faceOrigin.slice(0, nf) }
+  return { I, faceOrigin, nf, corners, volSum }
+}
+
+/** Faces per call of `remapBlock` (called per block so that V8 optimises it early, as `boundsBlock`). */
+const FACE_BLOCK = 16384
+
+interface RemapState {
+  P0: Float64Array
+  I0: Uint32Array
+  weldMap: Uint32Array | null
+  reps: Uint32Array | null
+  /** Bounding-box centre, m. */
+  center: Float64Array
+  degFaces: number[]
+  I: Uint32Array
+  faceOrigin: Uint32Array
+  corners: VertexCorners
+  /** Faces kept so far. */
+  nf: number
+  /** Running volume sum (see `remapFaces`), m³ × 6. */
+  volSum: number
+}
+
+/** Input faces from .. to−1 of `remapFaces`. */
+function remapBlock(r: RemapState, from: number, to: number): void {
+  const { P0, I0, weldMap, reps, degFaces, I, faceOrigin } = r
+  const { count, firstFace } = r.corners
+  const cx = r.center[0]!, cy = r.center[1]!, cz = r.center[2]!
+  let nf = r.nf, volSum = r.volSum
+  for (let f = from; f < to; f++) {
+    let a = I0[3 * f]!, b = I0[3 * f + 1]!, c = I0[3 * f + 2]!
+    if (weldMap) { a = weldMap[a]!; b = weldMap[b]!; c = weldMap[c]! }
+    const ra = reps ? reps[a]! : a, rb = reps ? reps[b]! : b, rc = reps ? reps[c]! : c
+    if (a === b || b === c || c === a || zeroArea(P0, ra, rb, rc)) { if (degFaces.length < MAX_LISTED) degFaces.push(f); continue }
+    volSum = addTriple(volSum, P0, 3 * ra, 3 * rb, 3 * rc, cx, cy, cz)
+    I[3 * nf] = a; I[3 * nf + 1] = b; I[3 * nf + 2] = c
+    faceOrigin[nf] = f
+    if (count[a]!++ === 0) firstFace[a] = nf
+    if (count[b]!++ === 0) firstFace[b] = nf
+    if (count[c]!++ === 0) firstFace[c] = nf
+    nf++
+  }
+  r.nf = nf
+  r.volSum = volSum
+}
+
+/** True when the triangle of vertices a, b, c (indices into P, m) has zero area to working precision. */
+function zeroArea(P: Float64Array, a: number, b: number, c: number): boolean {
+  const ra = 3 * a, rb = 3 * b, rc = 3 * c
+  const ux = P[rb]! - P[ra]!, uy = P[rb + 1]! - P[ra + 1]!, uz = P[rb + 2]! - P[ra + 2]!
+  const vx = P[rc]! - P[ra]!, vy = P[rc + 1]! - P[ra + 1]!, vz = P[rc + 2]! - P[ra + 2]!
+  const wx = vx - ux, wy = vy - uy, wz = vz - uz
+  const cx = uy * vz - uz * vy, cy = uz * vx - ux * vz, cz = ux * vy - uy * vx
+  const cross2 = cx * cx + cy * cy + cz * cz
+  const e2 = Math.max(ux * ux + uy * uy + uz * uz, vx * vx + vy * vy + vz * vz, wx * wx + wy * wy + wz * wz)
+  return cross2 <= 1e-24 * e2 * e2
+}
+
+/**
+ * Breadth-first search over faces through paired edges, seeded at the lowest unvisited face.
+ * flip[f] (0/1) is f's winding relative to its component's seed: a neighbour across a
+ * same-direction edge gets the opposite flip. comp[f] labels components in order of first face.
+ * badFaces: the first few faces reached with a contradictory flip (the surface is not orientable).
+ */
+function orientComponents(nf: number, twin: Int32Array, sameDir: Uint8Array) {
+  const flip = new Int8Array(nf).fill(-1)
+  const comp = new Uint32Array(nf)
+  const queue = new Uint32Array(nf)
+  const compSizes: number[] = []
+  const compFlips: number[] = []
+  const badFaces: number[] = []
+  for (let s = 0; s < nf; s++) {
+    if (flip[s] !== -1) continue
+    const nComp = compSizes.length
+    let head = 0, tail = 0
+    queue[tail++] = s
+    flip[s] = 0
+    comp[s] = nComp
+    let flips = 0
+    while (head < tail) {
+      const f = queue[head++]!
+      const ff = flip[f]!
+      flips += ff
+      for (let h = 3 * f; h < 3 * f + 3; h++) {
+        const g = (twin[h]! / 3) | 0
+        const want = sameDir[h] ? 1 - ff : ff
+        if (flip[g] === -1) { flip[g] = want; comp[g] = nComp; queue[tail++] = g } else if (flip[g] !== want && badFaces.length < MAX_LISTED) badFaces.push(g)
+      }
+    }
+    compSizes.push(tail)
+    compFlips.push(flips)
+  }
+  return { flip, comp, compSizes, compFlips, badFaces }
+}
+
+/**
+ * Final winding per face: the BFS flip, inverted for components where most faces were flipped
+ * (the majority winding is kept). Reverses those faces in I (corners 1 and 2), leaves the final
+ * flip in `flip` and returns how many faces were reversed.
+ */
+function applyFlips(I: Uint32Array, flip: Int8Array, comp: Uint32Array, invert: Uint8Array): number {
+  let flipped = 0
+  for (let f = 0; f < flip.length; f++) {
+    const fl = invert[comp[f]!] ? 1 - flip[f]! : flip[f]!
+    flip[f] = fl
+    if (fl) { flipped++; const t = I[3 * f + 1]!; I[3 * f + 1] = I[3 * f + 2]!; I[3 * f + 2] = t }
+  }
+  return flipped
+}
+
+/**
+ * Six times the signed volume of each component, m³: sum over its faces of the triple product of
+ * the corners taken from (cx, cy, cz) (divergence theorem; common practice, no source).
+ */
+function componentVolumes(P: Float64Array, I: Uint32Array, comp: Uint32Array, nComp: number, cx: number, cy: number, cz: number): Float64Array {
+  const vol = new Float64Array(nComp)
+  for (let f = 0; f < comp.length; f++) {
+    vol[comp[f]!] = addTriple(vol[comp[f]!]!, P, 3 * I[3 * f]!, 3 * I[3 * f + 1]!, 3 * I[3 * f + 2]!, cx, cy, cz)
+  }
+  return vol
+}
+
+/**
+ * acc + the triple product (a − c)·((b − c) × (q − c)) of the points at offsets a, b, q of P, with
+ * c = (cx, cy, cz), m³; added term by term (one rounding order shared by every volume sum here).
+ */
+function addTriple(acc: number, P: Float64Array, a: number, b: number, q: number, cx: number, cy: number, cz: number): number {
+  const ax = P[a]! - cx, ay = P[a + 1]! - cy, az = P[a + 2]! - cz
+  const bx = P[b]! - cx, by = P[b + 1]! - cy, bz = P[b + 2]! - cz
+  const qx = P[q]! - cx, qy = P[q + 1]! - cy, qz = P[q + 2]! - cz
+  return acc + ax * (by * qz - bz * qy) + ay * (bz * qx - bx * qz) + az * (bx * qy - by * qx)
+}
+
+/** Number of faces per component label 0 .. n−1. */
+function countLabels(label: Uint32Array, n: number): number[] {
+  const sizes = new Array<number>(n).fill(0)
+  for (let f = 0; f < label.length; f++) sizes[label[f]!]!++
+  return sizes
+}
+
+/** Reverses (corners 1 and 2) every face of a component with negative volume. */
+function reverseInverted(I: Uint32Array, comp: Uint32Array, vol: Float64Array): void {
+  for (let f = 0; f < comp.length; f++) {
+    if (vol[comp[f]!]! < 0) { const t = I[3 * f + 1]!; I[3 * f + 1] = I[3 * f + 2]!; I[3 * f + 2] = t }
+  }
+}
+
+/**
+ * Follows face flips (corners 1 and 2 swapped where flip[f] = 1) in the half-edge twin table, in
+ * place: in a flipped face the edge of half-edge k moves to slot 2 − k (0 ↔ 2, 1 stays). Same
+ * result as pairing the flipped faces' edges again, without a new pairing.
+ */
+function reflectTwins(twin: Int32Array, flip: Int8Array): void {
+  const slot = (h: number) => { const f = (h / 3) | 0; return flip[f] ? 3 * f + 2 - (h - 3 * f) : h }
+  for (let f = 0; f < flip.length; f++) {
+    const h = 3 * f
+    const t0 = slot(twin[h]!), t1 = slot(twin[h + 1]!), t2 = slot(twin[h + 2]!)
+    if (flip[f]) { twin[h] = t2; twin[h + 1] = t1; twin[h + 2] = t0 } else { twin[h] = t0; twin[h + 1] = t1; twin[h + 2] = t2 }
+  }
+}
+
+/**
+ * Vertices whose faces form more than one fan, on a closed, consistently wound mesh (twin has no
+ * −1). Algorithm: from the vertex's corner in its first face, turn around the vertex (previous
+ * half-edge of the face, then its twin) until back at the start; a single disk visits every
+ * corner of the vertex. Returns the count and the first faces of the first few such vertices, in
+ * vertex order.
+ */
+function nonManifoldVertices(I: Uint32Array, corners: VertexCorners, twin: Int32Array): { bad: number, first: number[] } {
+  const { count: deg, firstFace } = corners
+  let bad = 0
+  const first: number[] = []
+  for (let v = 0; v < deg.length; v++) {
+    const f = firstFace[v]!
+    const h0 = I[3 * f] === v ? 3 * f : I[3 * f + 1] === v ? 3 * f + 1 : 3 * f + 2 // half-edge leaving v
+    const n = deg[v]!
+    let g = h0, steps = 0
+    do {
+      const p = g % 3 === 0 ? g + 2 : g - 1 // half-edge into v in the same face
+      g = twin[p]!
+      steps++
+    } while (g !== h0 && steps <= n)
+    if (steps !== n) { bad++; if (first.length < MAX_LISTED) first.push(f) }
+  }
+  return { bad, first }
+}
+
 export interface EdgeAnalysis {
-  /** CSR of half-edges by source vertex: he[start[v] .. start[v+1]) are half-edge ids 3f+k out of v. */
-  start: Uint32Array
-  he: Uint32Array
-  /** Target vertex of he[k]. */
-  tgt: Uint32Array
-  /** Other half-edge on the same edge, or −1 (boundary / non-manifold). */
+  /** Other half-edge on the same edge, or −1 (boundary / non-manifold). Half-edge 3f+k runs from corner k to k+1 of face f. */
   twin: Int32Array
-  /** 1 when the twin runs in the same direction (inconsistent winding). */
+  /** 1 when the twin runs in the same direction (inconsistent winding); empty when sameDirEdges is 0. */
   sameDir: Uint8Array
+  /** Paired edges whose two half-edges run the same way (0: winding consistent everywhere). */
+  sameDirEdges: number
   boundary: number
   nonManifold: number
+  /** Faces of the first boundary half-edges, ordered by (source vertex, half-edge id). */
   boundaryFaces: number[]
+  /** Faces of the first non-manifold edges (each named by its lowest half-edge), same order. */
   nonManifoldFaces: number[]
 }
 
 /**
- * Edge incidence by vertex-sorted half-edge lists. Half-edge 3f+k runs from corner k to corner
- * k+1 of face f. `skipDegenerate` ignores half-edges with equal ends.
+ * Edge incidence. Algorithm: a counting sort puts every half-edge h (stored as its id) into the
+ * bucket of its smaller end vertex (CSR, buckets in vertex order, ids ascending inside a bucket,
+ * larger end stored beside each id);
+ * all half-edges of one edge then share a bucket of ~6 entries and are matched there by their
+ * larger end. An edge with two half-edges is paired (same direction → `sameDir`), with one it is a
+ * boundary edge, with more it is non-manifold. Memory: the buckets (8 bytes per half-edge, freed
+ * on return) besides the result (5 bytes per half-edge). `skipDegenerate` ignores half-edges with equal ends.
  */
 export function analyseEdges(I: Uint32Array, nv: number, skipDegenerate = false): EdgeAnalysis {
+  return pairClosedConsistent(I, nv) ?? pairEdges(I, nv, skipDegenerate)
+}
+
+/**
+ * Fast path for the usual input, a closed mesh wound consistently: every edge a–b is crossed once
+ * as a → b and once as b → a. Only rising half-edges (lower → higher vertex) are bucketed, by
+ * their lower end (counting sort, larger end stored beside each id); each falling half-edge then
+ * looks in its lower end's bucket for its mate. Returns undefined as soon as the mesh is not of
+ * this kind (a degenerate half-edge, more rising than falling half-edges, a falling one with no
+ * or two candidate mates, a rising one claimed twice); the general pairing then decides. When it
+ * succeeds every rising half-edge was claimed exactly once, so each edge has exactly one
+ * half-edge each way: the result is the one the general pairing would give.
+ */
+function pairClosedConsistent(I: Uint32Array, nv: number): EdgeAnalysis | undefined {
   const nh = I.length
   const start = new Uint32Array(nv + 1)
   for (let h = 0; h < nh; h += 3) {
     const a = I[h]!, b = I[h + 1]!, c = I[h + 2]!
-    if (skipDegenerate) {
-      if (a !== b) start[a + 1]!++
-      if (b !== c) start[b + 1]!++
-      if (c !== a) start[c + 1]!++
-    } else { start[a + 1]!++; start[b + 1]!++; start[c + 1]!++ }
+    if (a === b || b === c || c === a) return undefined
+    if (a < b) start[a + 1]!++
+    if (b < c) start[b + 1]!++
+    if (c < a) start[c + 1]!++
   }
   for (let v = 0; v < nv; v++) start[v + 1] = start[v + 1]! + start[v]!
-  const fill = start.slice(0, nv)
-  const he = new Uint32Array(nh)
-  const tgt = new Uint32Array(nh)
+  if (2 * start[nv]! !== nh) return undefined
+  const twin = new Int32Array(nh)
+  const bucket = new Uint32Array(nh / 2), upper = new Uint32Array(nh / 2)
   for (let h = 0; h < nh; h += 3) {
     const a = I[h]!, b = I[h + 1]!, c = I[h + 2]!
-    let k: number
-    if (!skipDegenerate || a !== b) { k = fill[a]!++; he[k] = h; tgt[k] = b }
-    if (!skipDegenerate || b !== c) { k = fill[b]!++; he[k] = h + 1; tgt[k] = c }
-    if (!skipDegenerate || c !== a) { k = fill[c]!++; he[k] = h + 2; tgt[k] = a }
+    if (a < b) putRising(start, bucket, upper, twin, h, a, b)
+    if (b < c) putRising(start, bucket, upper, twin, h + 1, b, c)
+    if (c < a) putRising(start, bucket, upper, twin, h + 2, c, a)
   }
-  const twin = new Int32Array(nh).fill(-1)
+  // bucket of vertex v is now bucket[start[v−1] .. start[v]) (start[−1] read as 0)
+  for (let h = 0; h < nh; h += 3) {
+    const a = I[h]!, b = I[h + 1]!, c = I[h + 2]!
+    if (a > b && !claimMate(start, bucket, upper, twin, h, b, a)) return undefined
+    if (b > c && !claimMate(start, bucket, upper, twin, h + 1, c, b)) return undefined
+    if (c > a && !claimMate(start, bucket, upper, twin, h + 2, a, c)) return undefined
+  }
+  return { twin, sameDir: NO_SAME_DIR, sameDirEdges: 0, boundary: 0, nonManifold: 0, boundaryFaces: [], nonManifoldFaces: [] }
+}
+
+/** `sameDir` of a pairing with no same-direction edge (shared, never written). */
+const NO_SAME_DIR = new Uint8Array(0)
+
+/** Files rising half-edge h (lo → hi) in bucket lo, not yet claimed. */
+function putRising(start: Uint32Array, bucket: Uint32Array, upper: Uint32Array, twin: Int32Array, h: number, lo: number, hi: number): void {
+  const k = start[lo]!++
+  bucket[k] = h
+  upper[k] = hi
+  twin[h] = -1
+}
+
+/**
+ * Falling half-edge h (hi → lo) claims the single rising lo → hi in bucket lo; false when there is
+ * none, more than one, or it was already claimed.
+ */
+function claimMate(start: Uint32Array, bucket: Uint32Array, upper: Uint32Array, twin: Int32Array, h: number, lo: number, hi: number): boolean {
+  let mate = -1
+  for (let k = lo === 0 ? 0 : start[lo - 1]!, k1 = start[lo]!; k < k1; k++) {
+    if (upper[k] === hi) { if (mate !== -1) return false; mate = bucket[k]! }
+  }
+  if (mate === -1 || twin[mate] !== -1) return false
+  twin[h] = mate
+  twin[mate] = h
+  return true
+}
+
+/** General pairing (see `analyseEdges`): any mix of boundary, non-manifold and same-direction edges. */
+function pairEdges(I: Uint32Array, nv: number, skipDegenerate: boolean): EdgeAnalysis {
+  const nh = I.length
+  const twin = new Int32Array(nh) // every entry is written below: −1 for skipped and unpaired half-edges
+  const { start, bucket, upper } = bucketByLowerEnd(I, nv, skipDegenerate, twin)
   const sameDir = new Uint8Array(nh)
-  let boundary = 0, nonManifold = 0
-  const boundaryFaces: number[] = [], nonManifoldFaces: number[] = []
+  let boundary = 0, nonManifold = 0, sameDirEdges = 0
+  const boundaryHe: number[] = [], nonManifoldHe: number[] = []
   for (let v = 0; v < nv; v++) {
-    const s0 = start[v]!, s1 = start[v + 1]!
-    // most vertices send at most one half-edge to each neighbour: then no per-edge duplicate scan
-    const distinct = distinctTargets(tgt, s0, s1)
-    for (let k = s0; k < s1; k++) {
-      const h = he[k]!
-      if (twin[h] !== -1) continue // paired from the other end (common case below)
-      const b = tgt[k]!
-      // common case first: exactly one opposite half-edge b→a, and a→b not duplicated (a
-      // duplicate a→b would make the b→a half-edge see two opposites and take the slow path)
-      let nOpp = 0, oppH = -1
-      const t0 = start[b]!, t1 = start[b + 1]!
-      for (let k3 = t0; k3 < t1; k3++) {
-        if (tgt[k3] === v) { nOpp++; oppH = he[k3]! }
-      }
-      if (nOpp === 1) {
-        // is b→a itself seeing a duplicate a→b? count a→b in our own list
-        let dup = false
-        if (!distinct) for (let k2 = s0; k2 < s1; k2++) if (k2 !== k && tgt[k2] === b) { dup = true; break }
-        // the pair is then symmetric: b→a would find exactly this a→b, so pair both ends now
-        if (!dup) { twin[h] = oppH; twin[oppH] = h; continue }
-      }
-      let nSame = 0, sameH = -1, minH = h
-      for (let k2 = s0; k2 < s1; k2++) {
-        if (k2 !== k && tgt[k2] === b) { nSame++; sameH = he[k2]!; if (sameH < minH) minH = sameH }
-      }
-      for (let k3 = t0; k3 < t1; k3++) {
-        if (tgt[k3] === v) { const o = he[k3]!; if (o < minH) minH = o }
-      }
-      const total = 1 + nSame + nOpp
-      if (total === 2) {
-        if (nSame) { twin[h] = sameH; sameDir[h] = 1 } else twin[h] = oppH
-      } else if (total === 1) {
+    const s0 = v === 0 ? 0 : start[v - 1]!, s1 = start[v]!
+    for (let i = s0; i < s1; i++) {
+      const b = upper[i]! >>> 1
+      let seen = false // an earlier entry of this bucket already handled the edge v–b
+      for (let j = s0; j < i; j++) if (upper[j]! >>> 1 === b) { seen = true; break }
+      if (seen) continue
+      const h = bucket[i]!
+      let count = 1, mate = -1, mateDir = 0
+      for (let j = i + 1; j < s1; j++) if (upper[j]! >>> 1 === b) { count++; mate = bucket[j]!; mateDir = upper[j]! & 1 }
+      if (count === 2) {
+        twin[h] = mate; twin[mate] = h
+        if ((upper[i]! & 1) === mateDir) { sameDir[h] = 1; sameDir[mate] = 1; sameDirEdges++ }
+      } else if (count === 1) {
+        twin[h] = -1
         boundary++
-        if (boundaryFaces.length < MAX_LISTED) boundaryFaces.push((h / 3) | 0)
-      } else if (minH === h) {
+        keepFirst(boundaryHe, h, I)
+      } else {
+        twin[h] = -1
+        for (let j = i + 1; j < s1; j++) if (upper[j]! >>> 1 === b) twin[bucket[j]!] = -1
         nonManifold++
-        if (nonManifoldFaces.length < MAX_LISTED) nonManifoldFaces.push((h / 3) | 0)
+        keepFirst(nonManifoldHe, h, I) // h is the edge's lowest half-edge id (ids ascend in a bucket)
       }
     }
   }
-  return { start, he, tgt, twin, sameDir, boundary, nonManifold, boundaryFaces, nonManifoldFaces }
+  const faceOf = (h: number) => (h / 3) | 0
+  return { twin, sameDir, sameDirEdges, boundary, nonManifold, boundaryFaces: boundaryHe.map(faceOf), nonManifoldFaces: nonManifoldHe.map(faceOf) }
 }
 
-/** True when tgt[s0 .. s1) holds no value twice (a vertex's out-going half-edges, degree ~6). */
-function distinctTargets(tgt: Uint32Array, s0: number, s1: number): boolean {
-  for (let k = s0 + 1; k < s1; k++) {
-    const t = tgt[k]!
-    for (let j = s0; j < k; j++) if (tgt[j] === t) return false
+/**
+ * Counting sort of half-edge ids by their smaller end vertex. On return bucket v is
+ * bucket[start[v−1] .. start[v]) (start[−1] read as 0): the fill cursor ends at the next bucket.
+ * upper[k] is 2 × (larger end of half-edge bucket[k]) + (1 when it runs from the larger end),
+ * stored so that the matching reads no face. Skipped (degenerate) half-edges get twin −1.
+ */
+function bucketByLowerEnd(I: Uint32Array, nv: number, skipDegenerate: boolean, twin: Int32Array) {
+  const nh = I.length
+  const start = new Uint32Array(nv + 1)
+  for (let h = 0; h < nh; h += 3) {
+    const a = I[h]!, b = I[h + 1]!, c = I[h + 2]!
+    if (!skipDegenerate || a !== b) start[(a < b ? a : b) + 1]!++
+    if (!skipDegenerate || b !== c) start[(b < c ? b : c) + 1]!++
+    if (!skipDegenerate || c !== a) start[(c < a ? c : a) + 1]!++
   }
-  return true
+  for (let v = 0; v < nv; v++) start[v + 1] = start[v + 1]! + start[v]!
+  const bucket = new Uint32Array(start[nv]!)
+  const upper = new Uint32Array(start[nv]!)
+  for (let h = 0; h < nh; h += 3) {
+    const a = I[h]!, b = I[h + 1]!, c = I[h + 2]!
+    if (!skipDegenerate || a !== b) place(start, bucket, upper, h, a, b); else twin[h] = -1
+    if (!skipDegenerate || b !== c) place(start, bucket, upper, h + 1, b, c); else twin[h + 1] = -1
+    if (!skipDegenerate || c !== a) place(start, bucket, upper, h + 2, c, a); else twin[h + 2] = -1
+  }
+  return { start, bucket, upper }
+}
+
+/** Puts half-edge h (a → b) at the fill cursor of its lower end's bucket. */
+function place(start: Uint32Array, bucket: Uint32Array, upper: Uint32Array, h: number, a: number, b: number): void {
+  const k = start[a < b ? a : b]!++
+  bucket[k] = h
+  upper[k] = a < b ? 2 * b : 2 * a + 1
+}
+
+/**
+ * Keeps in `list` the MAX_LISTED half-edges that come first in the order (source vertex I[h], h),
+ * the order in which a vertex-by-vertex scan of out-going half-edges would meet them.
+ */
+function keepFirst(list: number[], h: number, I: Uint32Array): void {
+  const before = (x: number, y: number) => I[x]! < I[y]! || (I[x] === I[y] && x < y)
+  if (list.length === MAX_LISTED && !before(h, list[MAX_LISTED - 1]!)) return
+  let i = list.length
+  list.push(h)
+  while (i > 0 && before(h, list[i - 1]!)) { list[i] = list[i - 1]!; i-- }
+  list[i] = h
+  if (list.length > MAX_LISTED) list.pop()
 }
 
 /**
@@ -575,23 +836,13 @@ export function findSelfIntersections(mesh: TriMesh, maxPairs = 10): { checked: 
 export function faceComponents(mesh: TriMesh): { label: Uint32Array, count: number } {
   const I = mesh.indices
   const nv = mesh.positions.length / 3
-  const parent = new Uint32Array(nv)
-  for (let v = 0; v < nv; v++) parent[v] = v
-  const root = (v: number): number => {
-    while (parent[v] !== v) { parent[v] = parent[parent[v]!]!; v = parent[v]! }
-    return v
-  }
-  // labels go by first face, so which root wins a union does not matter
-  for (let i = 0; i < I.length; i += 3) {
-    const a = root(I[i]!), b = root(I[i + 1]!)
-    if (a !== b) parent[b] = a
-    const c = root(I[i + 2]!)
-    if (c !== a) parent[c] = a
-  }
-  // flatten once, so each face's label is two array reads
-  for (let v = 0; v < nv; v++) parent[v] = root(v)
-  const lab = new Int32Array(nv).fill(-1)
+  const parent = vertexRoots(I, nv)
   const label = new Uint32Array(I.length / 3)
+  let roots = 0
+  for (let v = 0; v < nv; v++) if (parent[v] === v) roots++
+  // a single set (the rule on validated meshes, which have no unused vertices): all labels 0
+  if (roots === 1) return { label, count: 1 }
+  const lab = new Int32Array(nv).fill(-1)
   let count = 0
   for (let f = 0; f < label.length; f++) {
     const r = parent[I[3 * f]!]!
@@ -599,4 +850,30 @@ export function faceComponents(mesh: TriMesh): { label: Uint32Array, count: numb
     label[f] = lab[r]!
   }
   return { label, count }
+}
+
+/**
+ * Union-find over the vertices of faces I: each face joins its three corners; a root is linked
+ * under the smaller root (so every root is its set's smallest vertex) and paths are halved on the
+ * way. Returns parent with every entry pointing straight at its root.
+ */
+function vertexRoots(I: Uint32Array, nv: number): Uint32Array {
+  const parent = new Uint32Array(nv)
+  for (let v = 0; v < nv; v++) parent[v] = v
+  for (let i = 0; i < I.length; i += 3) {
+    const a = findRoot(parent, I[i]!), b = findRoot(parent, I[i + 1]!), c = findRoot(parent, I[i + 2]!)
+    const lo = a < b ? a : b, hi = a < b ? b : a
+    if (lo !== hi) parent[hi] = lo
+    if (c < lo) parent[lo] = c
+    else if (c !== lo) parent[c] = lo
+  }
+  // roots are the smallest vertex of their set, so one pass in vertex order flattens every path
+  for (let v = 0; v < nv; v++) parent[v] = parent[parent[v]!]!
+  return parent
+}
+
+/** Root of v, halving the path on the way. */
+function findRoot(parent: Uint32Array, v: number): number {
+  while (parent[v] !== v) { const g = parent[parent[v]!]!; parent[v] = g; v = g }
+  return v
 }

@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest'
 import { boxMesh, icosphere, mergeMeshes, seededRandom } from '../../../shared/geometry/generate'
-import { validateMesh } from '../../../shared/geometry/validate'
+import { faceComponents, validateMesh } from '../../../shared/geometry/validate'
 import { massProperties } from '../../../shared/geometry/mass'
 import { GeometryError } from '../../../shared/geometry/types'
 import type { TriMesh } from '../../../shared/geometry/types'
@@ -118,5 +118,23 @@ describe('validateMesh rejects with codes, counts and face indices', () => {
   })
   it('empty-mesh', () => {
     expect(err({ positions: new Float64Array(0), indices: new Uint32Array(0) }).code).toBe('empty-mesh')
+  })
+})
+
+describe('validateMesh component labels', () => {
+  // Labels number components in order of first triangle (common practice, no source): two
+  // separate spheres merged one after the other give 0 for the first sphere's triangles, 1 after.
+  it('componentLabels match the merge order and faceComponents, with and without winding repair', () => {
+    const a = icosphere(2), b = icosphere(2, 1, [3, 0, 0])
+    const nA = a.indices.length / 3, nB = b.indices.length / 3
+    const merged = mergeMeshes([a, b])
+    const partlyFlipped = merged.indices.slice()
+    for (const f of [1, nA + 5]) { const t = partlyFlipped[3 * f + 1]!; partlyFlipped[3 * f + 1] = partlyFlipped[3 * f + 2]!; partlyFlipped[3 * f + 2] = t }
+    for (const m of [merged, { positions: merged.positions, indices: partlyFlipped }]) {
+      const { mesh, report, componentLabels } = validateMesh(m)
+      expect(report.components).toBe(2)
+      expect(Array.from(componentLabels)).toEqual([...Array<number>(nA).fill(0), ...Array<number>(nB).fill(1)])
+      expect(Array.from(faceComponents(mesh).label)).toEqual(Array.from(componentLabels))
+    }
   })
 })
