@@ -20,7 +20,7 @@ function pipelinePhase(path: string): void {
     const t1 = performance.now()
     const v = validateMesh(mesh)
     const t2 = performance.now()
-    massProperties(v.mesh, { density: 1000, componentCount: v.report.components })
+    massProperties(v.mesh, { density: 1000, components: { label: v.componentLabels, count: v.report.components } })
     const t3 = performance.now()
     rounds.push({ read: t1 - t0, validate: t2 - t1, mass: t3 - t2 })
     // The peak of one cold run (what one upload costs), before later rounds pile up garbage.

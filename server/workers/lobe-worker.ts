@@ -55,10 +55,10 @@ async function analyse(p: AnalysePayload, progress: (f: number, stage: string) =
     for (let i = 0; i < P.length; i++) P[i] *= 1000
   }
   progress(0.35, 'validating')
-  const { mesh, report } = validateMesh(read.mesh)
+  const { mesh, report, componentLabels } = validateMesh(read.mesh)
   const t2 = performance.now()
   progress(0.6, 'mass properties')
-  const properties = massProperties(mesh, { density: p.density, referenceRadius: p.referenceRadius, componentCount: report.components })
+  const properties = massProperties(mesh, { density: p.density, referenceRadius: p.referenceRadius, components: { label: componentLabels, count: report.components } })
   const t3 = performance.now()
   progress(0.85, 'storing')
   await writeAtomic(p.analysisMeshPath, encodeAnalysisMesh(mesh.positions, mesh.indices))

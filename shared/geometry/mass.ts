@@ -78,12 +78,12 @@ export interface MassProperties {
  * `validateMesh` first); a negative total volume throws 'inside-out'.
  * @param opts.density kg m⁻³ (> 0)
  * @param opts.referenceRadius m, for J2, C22 and the harmonics (default: equivalentRadius)
- * @param opts.componentCount optional: `validateMesh(...).report.components` for this very mesh
- *   (faces joined through edges). When it is 1 the mesh is also one piece through vertices, and
- *   the per-component pass (a union-find over the vertices) is skipped.
+ * @param opts.components optional: the components `validateMesh` found for this very mesh
+ *   (`{ label: componentLabels, count: report.components }`, the labels `faceComponents` gives),
+ *   so they are not searched again; one component skips the per-component pass.
  * @throws GeometryError 'bad-argument', 'empty-mesh', 'inside-out'
  */
-export function massProperties(mesh: TriMesh, opts: { density: number, referenceRadius?: number, componentCount?: number }): MassProperties {
+export function massProperties(mesh: TriMesh, opts: { density: number, referenceRadius?: number, components?: { label: Uint32Array, count: number } }): MassProperties {
   const rho = opts.density
   if (!(rho > 0) || !Number.isFinite(rho)) throw new GeometryError('bad-argument', `massProperties: density must be a positive finite number (kg m^-3), got ${rho}`)
   if (opts.referenceRadius !== undefined && !(opts.referenceRadius > 0 && Number.isFinite(opts.referenceRadius))) throw new GeometryError('bad-argument', 'massProperties: referenceRadius must be positive')
@@ -179,8 +179,7 @@ export function massProperties(mesh: TriMesh, opts: { density: number, reference
     escapeSpeedPointMass: Math.sqrt((2 * G * mass) / maxRadius),
     G,
   }
-  // edge-connected components ≥ vertex-connected ones, so one edge-connected piece is one piece
-  const comps = opts.componentCount === 1 ? undefined : componentMasses(mesh, rho, [ox, oy, oz])
+  const comps = componentMasses(mesh, rho, [ox, oy, oz], opts.components ?? faceComponents(mesh))
   if (comps) props.components = comps
   return props
 }
@@ -224,8 +223,7 @@ function secondMomentsBlock(P: Float64Array, I: Uint32Array, ox: number, oy: num
   for (let k = 0; k < SUMS; k++) sums[k] = sums[k]! + add[k]!
 }
 
-function componentMasses(mesh: TriMesh, rho: number, o: Vec3): ComponentMass[] | undefined {
-  const { label, count } = faceComponents(mesh)
+function componentMasses(mesh: TriMesh, rho: number, o: Vec3, { label, count }: { label: Uint32Array, count: number }): ComponentMass[] | undefined {
   if (count < 2) return undefined
   const P = mesh.positions, I = mesh.indices
   const v6 = new Float64Array(count), s = new Float64Array(3 * count), nf = new Uint32Array(count)

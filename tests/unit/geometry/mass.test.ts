@@ -109,7 +109,7 @@ describe('massProperties: published worked example and closed forms', () => {
     idx.push(...[6, 7, 8, 6, 8, 9, 6, 9, 11, 11, 9, 10]) // top, outward +z
     for (let i = 0; i < 6; i++) { const j = (i + 1) % 6; idx.push(i, j, 6 + j, i, 6 + j, 6 + i) }
     const L = { positions: Float64Array.from(pos), indices: Uint32Array.from(idx) }
-    const { mesh, report } = validateMesh(L)
+    const { mesh, report, componentLabels } = validateMesh(L)
     expect(report.flippedFaces + report.invertedComponents).toBe(0)
     const p = massProperties(mesh, { density: 1 })
     close(p.volume, 3, 1e-14)
@@ -120,13 +120,14 @@ describe('massProperties: published worked example and closed forms', () => {
     const q = massProperties(cubes, { density: 1 })
     closeMat(q.inertia, p.inertia, 1e-13, 1e-14)
     expect(q.components).toHaveLength(3)
-    // validateMesh's component count (faces joined through edges) passed along: the three cubes
-    // touch along edges and faces but are separate solids, so the per-component pass still runs;
-    // the L-prism is one piece and gets no component list either way
+    // validateMesh's components passed along instead of searched again: the three cubes touch
+    // along edges and faces but are separate solids; the L-prism is one piece and gets no
+    // component list either way
     const v = validateMesh(cubes)
-    expect(massProperties(v.mesh, { density: 1, componentCount: v.report.components }).components).toHaveLength(3)
+    expect(massProperties(v.mesh, { density: 1, components: { label: v.componentLabels, count: v.report.components } }).components).toEqual(massProperties(v.mesh, { density: 1 }).components)
+    expect(massProperties(v.mesh, { density: 1 }).components).toHaveLength(3)
     expect(p.components).toBeUndefined()
-    expect(massProperties(mesh, { density: 1, componentCount: report.components })).toEqual(p)
+    expect(massProperties(mesh, { density: 1, components: { label: componentLabels, count: report.components } })).toEqual(p)
   })
 })
 
