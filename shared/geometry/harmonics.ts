@@ -14,6 +14,7 @@
  * 4π (Kaula) normalisation: C̄_lm = C_lm / N_lm, N_lm = √[(2−δ_m0)(2l+1)(l−m)!/(l+m)!].
  */
 import type { Mat3, TriMesh, Vec3 } from './types'
+import { MOMENT_MONOMIALS } from './moments'
 
 export const HARMONIC_DEGREE = 4
 /** Number of real solid harmonics up to degree 4 stored as (l, m, cos|sin). */
@@ -140,64 +141,8 @@ export function rescaleHarmonics(h: Harmonics, R: number): Harmonics {
   return { ...h, referenceRadius: R, C: map(h.C), S: map(h.S), normalized: { C: map(h.normalized.C), S: map(h.normalized.S) } }
 }
 
-const QF = Float64Array.from(QB.flat())
-
-/** Exponents (i, j, k) of the degree-3 then degree-4 monomials, in the order of `polyhedronMoments34`. */
-export const MONOMIALS_34: [number, number, number][] = [[3, 0, 0], [2, 1, 0], [2, 0, 1], [1, 2, 0], [1, 1, 1], [1, 0, 2], [0, 3, 0], [0, 2, 1], [0, 1, 2], [0, 0, 3], [4, 0, 0], [3, 1, 0], [3, 0, 1], [2, 2, 0], [2, 1, 1], [2, 0, 2], [1, 3, 0], [1, 2, 1], [1, 1, 2], [1, 0, 3], [0, 4, 0], [0, 3, 1], [0, 2, 2], [0, 1, 3], [0, 0, 4]]
-
-/**
- * ∫_V x^i y^j z^k dV over the polyhedron for the 25 monomials of degree 3 and 4 (MONOMIALS_34),
- * coordinates relative to `origin` (m). Exact: Euler's theorem turns each homogeneous integrand of
- * degree n into Σ_faces 3V_t/(n+3) · (triangle mean), the mean by Dunavant's 6-point rule.
- */
-export function polyhedronMoments34(mesh: TriMesh, origin: Vec3): Float64Array {
-  const acc = new Float64Array(25)
-  const n = mesh.indices.length
-  // Blocks of faces: the block function becomes hot after a few calls and is compiled with its
-  // 25 sums as unboxed float64 locals. One long loop would first run as on-stack-replaced code,
-  // whose sums stay boxed (several times slower on the first call, which is the one that counts).
-  for (let f = 0; f < n; f += MOMENT_BLOCK) moments34Block(mesh.positions, mesh.indices, origin[0], origin[1], origin[2], f, Math.min(n, f + MOMENT_BLOCK), acc)
-  return acc
-}
-
-/** Faces per call of `moments34Block` (× 3 indices). */
-const MOMENT_BLOCK = 3 * 2048
-
-/** Adds the degree-3 and 4 moments of the faces with indices [from, to) to acc (MONOMIALS_34 order). */
-function moments34Block(P: Float64Array, I: Uint32Array, ox: number, oy: number, oz: number, from: number, to: number, acc: Float64Array): void {
-  let m0 = 0, m1 = 0, m2 = 0, m3 = 0, m4 = 0, m5 = 0, m6 = 0, m7 = 0, m8 = 0, m9 = 0, m10 = 0, m11 = 0, m12 = 0, m13 = 0, m14 = 0, m15 = 0, m16 = 0, m17 = 0, m18 = 0, m19 = 0, m20 = 0, m21 = 0, m22 = 0, m23 = 0, m24 = 0
-  for (let f = from; f < to; f += 3) {
-    const a = 3 * I[f]!, b = 3 * I[f + 1]!, c = 3 * I[f + 2]!
-    const ax = P[a]! - ox, ay = P[a + 1]! - oy, az = P[a + 2]! - oz
-    const bx = P[b]! - ox, by = P[b + 1]! - oy, bz = P[b + 2]! - oz
-    const cx = P[c]! - ox, cy = P[c + 1]! - oy, cz = P[c + 2]! - oz
-    const v3 = (ax * (by * cz - bz * cy) + ay * (bz * cx - bx * cz) + az * (bx * cy - by * cx)) / 2 // 3·V_t
-    for (let q = 0; q < 6; q++) {
-      const o = 3 * q
-      const w0 = QF[o]!, w1 = QF[o + 1]!, w2 = QF[o + 2]!
-      const x = w0 * ax + w1 * bx + w2 * cx, y = w0 * ay + w1 * by + w2 * cy, z = w0 * az + w1 * bz + w2 * cz
-      // cubic terms take 1/(3+3) of 3V_t, quartic 1/(4+3); pairwise products are shared
-      const w = QWF[q]! * v3 / 6
-      const wx = w * x, wy = w * y, wz = w * z
-      const xx = x * x, xy = x * y, xz = x * z, yy = y * y, yz = y * z, zz = z * z
-      m0 += wx * xx; m1 += wx * xy; m2 += wx * xz; m3 += wx * yy; m4 += wx * yz
-      m5 += wx * zz; m6 += wy * yy; m7 += wy * yz; m8 += wy * zz; m9 += wz * zz
-      const v = w * 6 / 7
-      const vxx = v * xx, vxy = v * xy, vxz = v * xz, vyy = v * yy, vyz = v * yz, vzz = v * zz
-      m10 += vxx * xx; m11 += vxx * xy; m12 += vxx * xz; m13 += vxx * yy; m14 += vxx * yz
-      m15 += vxx * zz; m16 += vxy * yy; m17 += vxy * yz; m18 += vxy * zz; m19 += vxz * zz
-      m20 += vyy * yy; m21 += vyy * yz; m22 += vyy * zz; m23 += vyz * zz; m24 += vzz * zz
-    }
-  }
-  const m = [m0, m1, m2, m3, m4, m5, m6, m7, m8, m9, m10, m11, m12, m13, m14, m15, m16, m17, m18, m19, m20, m21, m22, m23, m24]
-  for (let k = 0; k < 25; k++) acc[k] = acc[k]! + m[k]!
-}
-
-const QWF = Float64Array.from(QW)
-
 // ---- polynomials of degree ≤ 4 in (x, y, z): coefficient arrays over the 35 monomials ----
-const MON: [number, number, number][] = []
-for (let n = 0; n <= 4; n++) for (let i = n; i >= 0; i--) for (let j = n - i; j >= 0; j--) MON.push([i, j, n - i - j])
+const MON = MOMENT_MONOMIALS
 const MON_INDEX = new Map(MON.map((e, k) => [e.join(','), k]))
 type Poly = Float64Array
 const polyZero = (): Poly => new Float64Array(MON.length)
@@ -220,7 +165,7 @@ const polyAdd = (a: Poly, b: Poly, sa = 1, sb = 1): Poly => a.map((v, k) => sa *
 /**
  * Solid-harmonic integrals ∫_V r'^l P_lm(sinφ'){cos, sin}(mλ') dV (layout as `solidHarmonics`) in the
  * frame x' = R·(x − g), from the polyhedron's monomial moments about some origin o:
- * moments[k] = ∫ x^i y^j z^k dV for MON order (degree 0..4), g relative to o.
+ * moments[k] = ∫ x^i y^j z^k dV in MOMENT_MONOMIALS order (degree 0..4, `polyhedronMoments`), g relative to o.
  */
 export function harmonicIntegralsFromMoments(moments: Float64Array, g: Vec3, R: Mat3): Float64Array {
   const lin = (r: Vec3): Poly => {
@@ -263,6 +208,3 @@ export function harmonicIntegralsFromMoments(moments: Float64Array, g: Vec3, R: 
   }
   return out
 }
-
-/** Monomial order used by `harmonicIntegralsFromMoments` (degree 0..4, 35 entries). */
-export const MONOMIALS = MON

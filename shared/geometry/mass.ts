@@ -11,7 +11,8 @@ import type { Mat3, TriMesh, Vec3 } from './types'
 import { GeometryError } from './types'
 import { symmetricEigen } from './linalg'
 import { faceComponents } from './validate'
-import { harmonicIntegralsFromMoments, harmonicsFromIntegrals, polyhedronMoments34, rescaleHarmonics } from './harmonics'
+import { harmonicIntegralsFromMoments, harmonicsFromIntegrals, rescaleHarmonics } from './harmonics'
+import { polyhedronMoments } from './moments'
 import type { Harmonics } from './harmonics'
 
 /** Newtonian constant of gravitation, m³ kg⁻¹ s⁻² (CODATA 2018). */
@@ -91,26 +92,17 @@ export function massProperties(mesh: TriMesh, opts: { density: number, reference
   const I = mesh.indices
   const nv = P.length / 3
   if (nv === 0 || I.length === 0) throw new GeometryError('empty-mesh', 'massProperties: the mesh has no faces')
-  let minx = Infinity, miny = Infinity, minz = Infinity, maxx = -Infinity, maxy = -Infinity, maxz = -Infinity
-  for (let v = 0; v < nv; v++) {
-    const x = P[3 * v]!, y = P[3 * v + 1]!, z = P[3 * v + 2]!
-    if (x < minx) minx = x; if (x > maxx) maxx = x
-    if (y < miny) miny = y; if (y > maxy) maxy = y
-    if (z < minz) minz = z; if (z > maxz) maxz = z
-  }
+  const box = boundingBox(P)
+  const [minx, miny, minz] = box.min, [maxx, maxy, maxz] = box.max
   const ox = (minx + maxx) / 2, oy = (miny + maxy) / 2, oz = (minz + maxz) / 2
-  const sums = new Float64Array(SUMS)
-  for (let f = 0; f < I.length; f += BLOCK) secondMomentsBlock(P, I, ox, oy, oz, f, Math.min(I.length, f + BLOCK), sums)
-  const V6 = sums[0]!, area2 = sums[1]!, sx = sums[2]!, sy = sums[3]!, sz = sums[4]!
-  const cxx = sums[5]!, cyy = sums[6]!, czz = sums[7]!, cxy = sums[8]!, cxz = sums[9]!, cyz = sums[10]!
-  const volume = V6 / 6
+  // monomial moments about o, degree 0..4 (MOMENT_MONOMIALS order: 1; x y z; xx xy xz yy yz zz; ...)
+  const { moments, surfaceArea } = polyhedronMoments(mesh, [ox, oy, oz])
+  const volume = moments[0]!
   if (!(volume > 0)) throw new GeometryError('inside-out', `massProperties: the signed volume is ${volume <= 0 ? 'not positive' : 'not finite'} (${volume}); the mesh is inside-out or not closed (run validateMesh first)`)
-  // first moment: Σ V_t (a+b+c)/4 = Σ d·t/24
-  const gx = sx / 24 / volume, gy = sy / 24 / volume, gz = sz / 24 / volume
-  const k = 1 / 120 // d/6 · 1/20
+  const gx = moments[1]! / volume, gy = moments[2]! / volume, gz = moments[3]! / volume
   // second moment about the centroid, per unit density: C_cm = C_o − V g gᵀ
-  const Cxx = cxx * k - volume * gx * gx, Cyy = cyy * k - volume * gy * gy, Czz = czz * k - volume * gz * gz
-  const Cxy = cxy * k - volume * gx * gy, Cxz = cxz * k - volume * gx * gz, Cyz = cyz * k - volume * gy * gz
+  const Cxx = moments[4]! - volume * gx * gx, Cxy = moments[5]! - volume * gx * gy, Cxz = moments[6]! - volume * gx * gz
+  const Cyy = moments[7]! - volume * gy * gy, Cyz = moments[8]! - volume * gy * gz, Czz = moments[9]! - volume * gz * gz
   const tr = Cxx + Cyy + Czz
   const mass = rho * volume
   const inertia: Mat3 = [
@@ -140,24 +132,14 @@ export function massProperties(mesh: TriMesh, opts: { density: number, reference
     C22: (Iyy - Ixx) / (4 * MR2),
     S22: -inertia[0][1] / (2 * MR2),
   }
-  // monomial moments about o, degree 0..4 (order of MONOMIALS: 1; x y z; xx xy xz yy yz zz; ...)
-  const m34 = polyhedronMoments34(mesh, [ox, oy, oz])
-  const moments = new Float64Array(35)
-  moments.set([volume, sx / 24, sy / 24, sz / 24, cxx * k, cxy * k, cxz * k, cyy * k, cyz * k, czz * k], 0)
-  moments.set(m34, 10)
   const ints = harmonicIntegralsFromMoments(moments, [gx, gy, gz], axes)
   const harmonics = harmonicsFromIntegrals(ints, volume, R, 'principal')
-  let maxR2 = 0
-  for (let v = 0; v < nv; v++) {
-    const dx = P[3 * v]! - centroid[0], dy = P[3 * v + 1]! - centroid[1], dz = P[3 * v + 2]! - centroid[2]
-    const r2 = dx * dx + dy * dy + dz * dz
-    if (r2 > maxR2) maxR2 = r2
-  }
+  const maxR2 = farthestSquared(P, centroid)
   const maxRadius = Math.sqrt(maxR2)
   const props: MassProperties = {
     density: rho,
     volume,
-    surfaceArea: area2 / 2,
+    surfaceArea,
     mass,
     centroid,
     inertia,
@@ -184,43 +166,44 @@ export function massProperties(mesh: TriMesh, opts: { density: number, reference
   return props
 }
 
-/** Number of sums kept by `secondMomentsBlock`. */
-const SUMS = 11
-/** Faces per block (× 3 indices): see `secondMomentsBlock`. */
-const BLOCK = 3 * 4096
+/** Vertices per call of the block functions below (called per block so that V8 optimises them early). */
+const VERTEX_BLOCK = 16384
 
-/**
- * Adds, over the faces with indices [from, to), to sums: 6V, 2·area, Σ 6V_t·(a+b+c) (3), and
- * Σ 6V_t·(aaᵀ + bbᵀ + ccᵀ + ssᵀ) as xx yy zz xy xz yz, s = a+b+c, coordinates relative to o (m).
- * Called per block of faces so that V8 compiles it with unboxed float64 sums before the bulk of
- * the work (one long loop runs first as on-stack-replaced code, whose sums stay boxed).
- */
-function secondMomentsBlock(P: Float64Array, I: Uint32Array, ox: number, oy: number, oz: number, from: number, to: number, sums: Float64Array): void {
-  let V6 = 0, area2 = 0
-  let sx = 0, sy = 0, sz = 0
-  let cxx = 0, cyy = 0, czz = 0, cxy = 0, cxz = 0, cyz = 0
-  for (let f = from; f < to; f += 3) {
-    const a = 3 * I[f]!, b = 3 * I[f + 1]!, c = 3 * I[f + 2]!
-    const ax = P[a]! - ox, ay = P[a + 1]! - oy, az = P[a + 2]! - oz
-    const bx = P[b]! - ox, by = P[b + 1]! - oy, bz = P[b + 2]! - oz
-    const qx = P[c]! - ox, qy = P[c + 1]! - oy, qz = P[c + 2]! - oz
-    const d = ax * (by * qz - bz * qy) + ay * (bz * qx - bx * qz) + az * (bx * qy - by * qx) // 6 V_t
-    V6 += d
-    const ux = bx - ax, uy = by - ay, uz = bz - az, wx = qx - ax, wy = qy - ay, wz = qz - az
-    const nx = uy * wz - uz * wy, ny = uz * wx - ux * wz, nz = ux * wy - uy * wx
-    area2 += Math.sqrt(nx * nx + ny * ny + nz * nz)
-    const tx = ax + bx + qx, ty = ay + by + qy, tz = az + bz + qz
-    sx += d * tx; sy += d * ty; sz += d * tz
-    // (V_t/20)[aaᵀ + bbᵀ + qqᵀ + ssᵀ]
-    cxx += d * (ax * ax + bx * bx + qx * qx + tx * tx)
-    cyy += d * (ay * ay + by * by + qy * qy + ty * ty)
-    czz += d * (az * az + bz * bz + qz * qz + tz * tz)
-    cxy += d * (ax * ay + bx * by + qx * qy + tx * ty)
-    cxz += d * (ax * az + bx * bz + qx * qz + tx * tz)
-    cyz += d * (ay * az + by * bz + qy * qz + ty * tz)
+/** Axis-aligned bounding box of the vertices, m. */
+function boundingBox(P: Float64Array): { min: Vec3, max: Vec3 } {
+  const box = Float64Array.of(Infinity, Infinity, Infinity, -Infinity, -Infinity, -Infinity)
+  const nv = P.length / 3
+  for (let v = 0; v < nv; v += VERTEX_BLOCK) boxBlock(P, v, Math.min(nv, v + VERTEX_BLOCK), box)
+  return { min: [box[0]!, box[1]!, box[2]!], max: [box[3]!, box[4]!, box[5]!] }
+}
+
+function boxBlock(P: Float64Array, from: number, to: number, box: Float64Array): void {
+  let minx = box[0]!, miny = box[1]!, minz = box[2]!, maxx = box[3]!, maxy = box[4]!, maxz = box[5]!
+  for (let v = from; v < to; v++) {
+    const x = P[3 * v]!, y = P[3 * v + 1]!, z = P[3 * v + 2]!
+    if (x < minx) minx = x; if (x > maxx) maxx = x
+    if (y < miny) miny = y; if (y > maxy) maxy = y
+    if (z < minz) minz = z; if (z > maxz) maxz = z
   }
-  const add = [V6, area2, sx, sy, sz, cxx, cyy, czz, cxy, cxz, cyz]
-  for (let k = 0; k < SUMS; k++) sums[k] = sums[k]! + add[k]!
+  box[0] = minx; box[1] = miny; box[2] = minz; box[3] = maxx; box[4] = maxy; box[5] = maxz
+}
+
+/** Largest squared distance from c to a vertex, m². */
+function farthestSquared(P: Float64Array, c: Vec3): number {
+  let max = 0
+  const nv = P.length / 3
+  for (let v = 0; v < nv; v += VERTEX_BLOCK) max = Math.max(max, farthestBlock(P, v, Math.min(nv, v + VERTEX_BLOCK), c[0], c[1], c[2]))
+  return max
+}
+
+function farthestBlock(P: Float64Array, from: number, to: number, cx: number, cy: number, cz: number): number {
+  let max = 0
+  for (let v = from; v < to; v++) {
+    const dx = P[3 * v]! - cx, dy = P[3 * v + 1]! - cy, dz = P[3 * v + 2]! - cz
+    const r2 = dx * dx + dy * dy + dz * dz
+    if (r2 > max) max = r2
+  }
+  return max
 }
 
 function componentMasses(mesh: TriMesh, rho: number, o: Vec3, { label, count }: { label: Uint32Array, count: number }): ComponentMass[] | undefined {

@@ -174,8 +174,11 @@ function readBinaryBody(b: Uint8Array, h: PlyHeader, vEl: Element, fEl: Element,
   const src = new U32Builder(fEl.count) // triangle → face number in the file (from 0)
   let sourceFaces = 0
   let triangulated = 0
+  let indicesChecked = false
   for (const el of h.elements) {
     const fixed = el.props.every(p => !p.list)
+    const commonFaces = el === fEl && el.props.length === 1 && el.props[0]!.countType === 1 && SIZES[el.props[0]!.type] === 4
+    const tri = commonFaces && idx.n === 0 && readTriangleList(dv, o, el.count, el.props[0]!.type === 4, le, vEl.count, idx.a, src.a)
     if (el === vEl && fixed) {
       // fixed stride: offsets of x, y, z
       const offs: number[] = []
@@ -185,11 +188,8 @@ function readBinaryBody(b: Uint8Array, h: PlyHeader, vEl: Element, fEl: Element,
       const [ox, oy, oz] = xyz.map(k => offs[k]!)
       const [tx, ty, tz] = xyz.map(k => el.props[k]!.type)
       if (tx === 6 && ty === 6 && tz === 6) {
-        for (let v = 0; v < el.count; v++, o += stride) {
-          positions[3 * v] = dv.getFloat32(o + ox!, le)
-          positions[3 * v + 1] = dv.getFloat32(o + oy!, le)
-          positions[3 * v + 2] = dv.getFloat32(o + oz!, le)
-        }
+        for (let v = 0; v < el.count; v += BLOCK) float32Block(dv, o, stride, ox!, oy!, oz!, v, Math.min(el.count, v + BLOCK), le, positions)
+        o += stride * el.count
       } else if (tx === 7 && ty === 7 && tz === 7) {
         for (let v = 0; v < el.count; v++, o += stride) {
           positions[3 * v] = dv.getFloat64(o + ox!, le)
@@ -208,7 +208,14 @@ function readBinaryBody(b: Uint8Array, h: PlyHeader, vEl: Element, fEl: Element,
       for (const p of el.props) stride += SIZES[p.type]!
       o += stride * el.count
       if (o > end) truncated(`element "${sanitize(el.name)}"`)
-    } else if (el === fEl && el.props.length === 1 && el.props[0]!.countType === 1 && SIZES[el.props[0]!.type] === 4) {
+    } else if (tri) {
+      // the usual layout, uchar count 3 and 4-byte indices on every face: read in one tight pass
+      idx.n = 3 * el.count
+      src.n = el.count
+      sourceFaces = el.count
+      indicesChecked = true
+      o += 13 * el.count
+    } else if (commonFaces) {
       // the common face layout: uchar count, 4-byte indices
       const signed = el.props[0]!.type === 4
       for (let f = 0; f < el.count; f++) {
@@ -282,7 +289,56 @@ function readBinaryBody(b: Uint8Array, h: PlyHeader, vEl: Element, fEl: Element,
       }
     }
   }
-  return finish(positions, idx, src, vEl.count, sourceFaces, triangulated)
+  return finish(positions, idx, src, vEl.count, sourceFaces, triangulated, indicesChecked)
+}
+
+/**
+ * Face list of `count` faces at byte offset o, each a uchar count followed by 4-byte indices:
+ * when every face is a triangle (count byte 3) and every index lies in 0 .. vertexCount − 1,
+ * writes the indices and the source face of each triangle (the identity) into `indices` (3·count)
+ * and `sourceFace` (count) and returns true. False otherwise (or when the bytes run out): the
+ * face-by-face walk then reads the element again and names the faulty face.
+ */
+function readTriangleList(dv: DataView, o: number, count: number, signed: boolean, le: boolean, vertexCount: number, indices: Uint32Array, sourceFace: Uint32Array): boolean {
+  if (o + 13 * count > dv.byteLength || indices.length < 3 * count || sourceFace.length < count) return false
+  // signed indices are read unsigned: a negative one becomes ≥ 2^31 and fails the range test
+  let max = 0
+  for (let f = 0; f < count; f += BLOCK) {
+    const m = triangleBlock(dv, o, f, Math.min(count, f + BLOCK), le, indices, sourceFace)
+    if (m < 0) return false
+    if (m > max) max = m
+  }
+  return max < vertexCount && !(signed && max >= 2 ** 31)
+}
+
+/** Faces or vertices per call of the block readers (called per block so that V8 optimises them early). */
+const BLOCK = 32768
+
+/**
+ * Reads faces from .. to−1 of `readTriangleList` into indices and sourceFace; returns the largest
+ * index, or −1 at the first face whose count byte is not 3.
+ */
+function triangleBlock(dv: DataView, o: number, from: number, to: number, le: boolean, indices: Uint32Array, sourceFace: Uint32Array): number {
+  let max = 0
+  for (let f = from, p = o + 13 * from; f < to; f++, p += 13) {
+    if (dv.getUint8(p) !== 3) return -1
+    const a = dv.getUint32(p + 1, le), b = dv.getUint32(p + 5, le), c = dv.getUint32(p + 9, le)
+    indices[3 * f] = a; indices[3 * f + 1] = b; indices[3 * f + 2] = c
+    sourceFace[f] = f
+    const m = a > b ? a : b
+    if (m > max) max = m
+    if (c > max) max = c
+  }
+  return max
+}
+
+/** Vertices from .. to−1 of a fixed-stride vertex element at byte offset o, x y z float32 at offsets ox, oy, oz. */
+function float32Block(dv: DataView, o: number, stride: number, ox: number, oy: number, oz: number, from: number, to: number, le: boolean, positions: Float64Array): void {
+  for (let v = from, p = o + stride * from; v < to; v++, p += stride) {
+    positions[3 * v] = dv.getFloat32(p + ox, le)
+    positions[3 * v + 1] = dv.getFloat32(p + oy, le)
+    positions[3 * v + 2] = dv.getFloat32(p + oz, le)
+  }
 }
 
 /** Record that the next `count` triangles come from face `face` of the file. */
@@ -291,11 +347,11 @@ function addSource(src: U32Builder, face: number, count: number) {
   for (let k = 0; k < count; k++) src.a[src.n++] = face
 }
 
-function finish(positions: Float64Array, idx: U32Builder, src: U32Builder, nv: number, sourceFaces: number, triangulated: number) {
+function finish(positions: Float64Array, idx: U32Builder, src: U32Builder, nv: number, sourceFaces: number, triangulated: number, indicesChecked = false) {
   if (nv === 0 || idx.n === 0) throw new GeometryError('empty-mesh', `readPly: no ${nv === 0 ? 'vertices' : 'faces'}`)
   const indices = idx.finish()
   const sourceFace = src.finish()
-  checkIndexRange(indices, sourceFace, nv, 'readPly')
+  if (!indicesChecked) checkIndexRange(indices, sourceFace, nv, 'readPly')
   return { mesh: { positions, indices, sourceFace }, sourceFaceCount: sourceFaces, triangulatedPolygons: triangulated }
 }
 
