@@ -130,8 +130,10 @@ export function validateMesh(mesh: TriMesh, opts: ValidateOptions = {}): Validat
   const tol = relTol * diag
   const weldMode = opts.weld ?? 'auto'
   let doWeld = weldMode === 'always'
+  // the usual input: closed, consistently wound, manifold at every edge and vertex (no weld then)
+  const clean = weldMode !== 'always' && closedOrientedManifold(I0, nv0)
   let E0: EdgeAnalysis | undefined
-  if (weldMode === 'auto') { E0 = analyseEdges(I0, nv0, true); doWeld = E0.boundary > 0 }
+  if (weldMode === 'auto' && !clean) { E0 = analyseEdges(I0, nv0, true); doWeld = E0.boundary > 0 }
   // without a weld, vertex numbers stay as they are (weldMap and reps null: the identity)
   const welded = doWeld ? weld(P0, nv0, minx, miny, minz, diag, tol) : null
   const weldMap = welded ? welded.map : null, reps = welded ? welded.reps : null
@@ -164,9 +166,11 @@ export function validateMesh(mesh: TriMesh, opts: ValidateOptions = {}): Validat
   if (unreferenced > 0) warnings.push({ code: 'unreferenced-vertices', message: `${unreferenced} vertices used by no face were removed` })
 
   // 6. edges
-  // the first analysis is still valid when nothing was welded, dropped or renumbered
-  const E = E0 && !doWeld && nf === nf0 && nv === nv0 ? E0 : analyseEdges(I, nv)
-  if (E.boundary > 0 || E.nonManifold > 0) {
+  // the first check or analysis still holds when nothing was welded, dropped or renumbered; a
+  // mesh found clean needs none (E null)
+  const unchanged = !doWeld && nf === nf0 && nv === nv0
+  const E = clean && unchanged ? null : E0 && unchanged ? E0 : analyseEdges(I, nv)
+  if (E && (E.boundary > 0 || E.nonManifold > 0)) {
     if (E.nonManifold > 0) {
       const f = faceList(E.nonManifoldFaces.map(x => faceOrigin[x]!))
       throw new GeometryError('non-manifold-edge', `validateMesh: ${E.nonManifold} edges are shared by more than two faces; first ${FACES}: ${f.join(', ')}${numbering}`, issuesFor(f, 'edge shared by more than two faces'))
@@ -187,20 +191,20 @@ export function validateMesh(mesh: TriMesh, opts: ValidateOptions = {}): Validat
   if (degenerate > 0) warnings.push({ code: 'degenerate-faces', message: `${degenerate} zero-area triangles were dropped; first ${FACES} with them: ${faceList(degFaces).join(', ')}${numbering}` })
 
   // 7–8. orientation, components, vertex fans
-  const checkFans = () => {
-    const { bad, first } = nonManifoldVertices(I, corners, E.twin)
+  const checkFans = (twin: Int32Array) => {
+    const { bad, first } = nonManifoldVertices(I, corners, twin)
     const f = faceList(first.map(x => faceOrigin[x]!))
     if (bad > 0) throw new GeometryError('non-manifold-vertex', `validateMesh: ${bad} vertices are non-manifold (their faces form more than one fan, e.g. two bodies touching at a point); first ${FACES} at such vertices: ${f.join(', ')}${numbering}`, issuesFor(f, 'face at a non-manifold vertex'))
   }
   let comp: Uint32Array, compSizes: number[], flippedFaces = 0
-  if (E.sameDirEdges === 0) {
+  if (!E || E.sameDirEdges === 0) {
     // Winding already consistent: nothing to flip and nothing non-orientable, so the fan check
     // can come first. Once every fan is a single disk, faces sharing a vertex are also joined
     // through edges, and a union-find on vertices gives the components the search would give.
-    checkFans()
+    if (E) checkFans(E.twin)
     const fc = faceComponents({ positions: P, indices: I })
     comp = fc.label
-    compSizes = countLabels(comp, fc.count)
+    compSizes = fc.count === 1 ? [nf] : countLabels(comp, fc.count)
   } else {
     // search over faces through edges: flips relative to each component's first face
     const o = orientComponents(nf, E.twin, E.sameDir)
@@ -218,7 +222,7 @@ export function validateMesh(mesh: TriMesh, opts: ValidateOptions = {}): Validat
       warnings.push({ code: 'inconsistent-winding', message: `${flippedFaces} faces had a winding opposite to their neighbours and were reversed` })
       reflectTwins(E.twin, o.flip)
     }
-    checkFans()
+    checkFans(E.twin)
   }
   const nComp = compSizes.length
 
@@ -601,6 +605,80 @@ function nonManifoldVertices(I: Uint32Array, corners: VertexCorners, twin: Int32
     if (steps !== n) { bad++; if (first.length < MAX_LISTED) first.push(f) }
   }
   return { bad, first }
+}
+
+/**
+ * True when the triangles I form a closed, consistently wound surface that is manifold at every
+ * edge and every vertex: exactly what the edge analysis (no boundary, no non-manifold and no
+ * same-direction edge) followed by the vertex-fan check accepts, without building half-edge
+ * twins. Algorithm: a counting sort files each face corner under its vertex v as the pair
+ * (next, previous) of the face's other vertices; around v, "previous of one face = next of the
+ * following face" must link the pairs into one cycle through all of them, each link found exactly
+ * once. Every out-going edge v → w is then unique, matched by exactly one w → v, and the faces at
+ * v form a single disk; vertices used by no face are ignored. Degenerate faces (a repeated vertex)
+ * give false. Memory: 8 bytes per corner plus 4 per vertex, freed on return.
+ */
+export function closedOrientedManifold(I: Uint32Array, nv: number): boolean {
+  const nh = I.length
+  const start = new Uint32Array(nv + 1)
+  for (let f = 0; f < nh; f += CORNER_BLOCK) if (!countCorners(I, f, Math.min(nh, f + CORNER_BLOCK), start)) return false
+  for (let v = 0; v < nv; v++) start[v + 1] = start[v + 1]! + start[v]!
+  // pairs[2k], pairs[2k + 1]: next and previous vertex of the k-th corner filed; the fill cursor
+  // of vertex v starts at start[v] and ends at start[v + 1]
+  const pairs = new Uint32Array(2 * nh)
+  const cursor = start.slice(0, nv)
+  for (let f = 0; f < nh; f += CORNER_BLOCK) fileCorners(I, f, Math.min(nh, f + CORNER_BLOCK), cursor, pairs)
+  for (let v = 0; v < nv; v += VERTEX_BLOCK) if (!singleFans(start, pairs, v, Math.min(nv, v + VERTEX_BLOCK))) return false
+  return true
+}
+
+/** Indices per call of the corner block functions; vertices per call of `singleFans`. */
+const CORNER_BLOCK = 3 * 16384
+const VERTEX_BLOCK = 16384
+
+/** Counts the corners of faces [from, to) (× 3) per vertex into start[v + 1]; false at a face with a repeated vertex. */
+function countCorners(I: Uint32Array, from: number, to: number, start: Uint32Array): boolean {
+  for (let h = from; h < to; h += 3) {
+    const a = I[h]!, b = I[h + 1]!, c = I[h + 2]!
+    if (a === b || b === c || c === a) return false
+    start[a + 1]!++; start[b + 1]!++; start[c + 1]!++
+  }
+  return true
+}
+
+/** Files the corners of faces [from, to) (× 3) as (next, previous) pairs at their vertex's cursor. */
+function fileCorners(I: Uint32Array, from: number, to: number, cursor: Uint32Array, pairs: Uint32Array): void {
+  for (let h = from; h < to; h += 3) {
+    const a = I[h]!, b = I[h + 1]!, c = I[h + 2]!
+    let k = 2 * cursor[a]!++
+    pairs[k] = b; pairs[k + 1] = c
+    k = 2 * cursor[b]!++
+    pairs[k] = c; pairs[k + 1] = a
+    k = 2 * cursor[c]!++
+    pairs[k] = a; pairs[k + 1] = b
+  }
+}
+
+/** Vertices [from, to) of `closedOrientedManifold`: does each one's corners link into a single cycle? */
+function singleFans(start: Uint32Array, pairs: Uint32Array, from: number, to: number): boolean {
+  for (let v = from; v < to; v++) {
+    const s = 2 * start[v]!, e = 2 * start[v + 1]!
+    if (s === e) continue
+    let k = s, steps = 0
+    do {
+      // the one corner whose next vertex is this corner's previous vertex
+      const w = pairs[k + 1]!
+      let found = -1
+      for (let j = s; j < e; j += 2) {
+        if (pairs[j] === w) { if (found !== -1) return false; found = j }
+      }
+      if (found === -1) return false
+      k = found
+      steps += 2
+    } while (k !== s && steps <= e - s)
+    if (k !== s || steps !== e - s) return false
+  }
+  return true
 }
 
 export interface EdgeAnalysis {

@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest'
 import { boxMesh, icosphere, mergeMeshes, seededRandom } from '../../../shared/geometry/generate'
-import { faceComponents, validateMesh } from '../../../shared/geometry/validate'
+import { closedOrientedManifold, faceComponents, validateMesh } from '../../../shared/geometry/validate'
 import { massProperties } from '../../../shared/geometry/mass'
 import { GeometryError } from '../../../shared/geometry/types'
 import type { TriMesh } from '../../../shared/geometry/types'
@@ -118,6 +118,55 @@ describe('validateMesh rejects with codes, counts and face indices', () => {
   })
   it('empty-mesh', () => {
     expect(err({ positions: new Float64Array(0), indices: new Uint32Array(0) }).code).toBe('empty-mesh')
+  })
+})
+
+describe('closedOrientedManifold: the quick check of clean input (closed, one winding, manifold edges and vertices; common practice, no source)', () => {
+  const ok = (m: TriMesh) => closedOrientedManifold(m.indices, m.positions.length / 3)
+  it('accepts closed, consistently wound surfaces, inside-out ones and several bodies included', () => {
+    expect(ok(icosphere(3))).toBe(true)
+    expect(ok(boxMesh(1, 2, 3))).toBe(true)
+    expect(ok(flipAll(icosphere(2)))).toBe(true)
+    expect(ok(mergeMeshes([icosphere(1), boxMesh(1, 1, 1, [5, 0, 0])]))).toBe(true)
+    // a vertex used by no face is ignored
+    const b = boxMesh(1, 1, 1)
+    expect(ok({ positions: Float64Array.from([...b.positions, 9, 9, 9]), indices: b.indices })).toBe(true)
+  })
+  it('rejects every defect the edge analysis and the fan check reject', () => {
+    const b = boxMesh(1, 1, 1)
+    expect(ok({ positions: b.positions, indices: b.indices.slice(0, 33) })).toBe(false) // open
+    const one = b.indices.slice(); [one[1], one[2]] = [one[2]!, one[1]!]
+    expect(ok({ positions: b.positions, indices: one })).toBe(false) // one face wound against its neighbours
+    const a = tet([0, 0, 0])
+    const t2: TriMesh = { positions: Float64Array.from([0, 0, 0, 1, 0, 0, 0, -1, 0, 0, 0, -1]), indices: Uint32Array.from([0, 1, 2, 0, 3, 1, 0, 2, 3, 1, 3, 2]) }
+    const m = mergeMeshes([a, t2])
+    expect(ok({ positions: m.positions, indices: m.indices.map(v => (v === 4 ? 0 : v === 5 ? 1 : v)) })).toBe(false) // edge shared by four faces
+    const pinch = mergeMeshes([tet([0, 0, 0]), tet([0, 0, 0], -1)])
+    expect(ok({ positions: pinch.positions, indices: pinch.indices.map(v => (v === 4 ? 0 : v)) })).toBe(false) // two fans at one vertex
+    const rp2 = [1, 2, 3, 1, 3, 4, 1, 4, 5, 1, 5, 6, 1, 6, 2, 2, 3, 5, 3, 4, 6, 4, 5, 2, 5, 6, 3, 6, 2, 4].map(v => v - 1)
+    expect(ok({ positions: new Float64Array(18), indices: Uint32Array.from(rp2) })).toBe(false) // not orientable
+    const deg = b.indices.slice(); deg[2] = deg[1]!
+    expect(ok({ positions: b.positions, indices: deg })).toBe(false) // a face with a repeated vertex
+    const twice = Uint32Array.from([...b.indices, ...b.indices])
+    expect(ok({ positions: b.positions, indices: twice })).toBe(false) // every face twice
+  })
+  it('agrees with validateMesh on random damage to a sphere: accepted as is exactly when the quick check passes', () => {
+    const rnd = seededRandom(7)
+    for (let trial = 0; trial < 60; trial++) {
+      const s = icosphere(2)
+      const I = s.indices.slice()
+      const nf = I.length / 3
+      const kind = trial % 3
+      const f = Math.floor(rnd() * nf)
+      if (kind === 0) { [I[3 * f + 1], I[3 * f + 2]] = [I[3 * f + 2]!, I[3 * f + 1]!] }
+      else if (kind === 1) I.copyWithin(3 * f, 3 * f + 3)
+      else I[3 * f] = I[3 * ((f + 7) % nf) + 1]!
+      const m: TriMesh = { positions: s.positions, indices: kind === 1 ? I.slice(0, I.length - 3) : I }
+      let clean = true
+      try { const v = validateMesh(m, { weld: 'never', selfIntersectionMaxFaces: 0 }); clean = v.report.flippedFaces === 0 && v.report.degenerateFaces === 0 && v.report.unreferencedVertices === 0 }
+      catch { clean = false }
+      expect(ok(m)).toBe(clean)
+    }
   })
 })
 
