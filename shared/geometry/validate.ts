@@ -280,7 +280,13 @@ export function validateMesh(mesh: TriMesh, opts: ValidateOptions = {}): Validat
 /** Largest entry of I (0 when empty); a small function so that it is optimised on its own. */
 function largest(I: Uint32Array): number {
   let m = 0
-  for (let i = 0; i < I.length; i++) if (I[i]! > m) m = I[i]!
+  for (let i = 0; i < I.length; i += CORNER_BLOCK) m = Math.max(m, largestBlock(I, i, Math.min(I.length, i + CORNER_BLOCK)))
+  return m
+}
+
+function largestBlock(I: Uint32Array, from: number, to: number): number {
+  let m = 0
+  for (let i = from; i < to; i++) if (I[i]! > m) m = I[i]!
   return m
 }
 
@@ -297,7 +303,7 @@ function boundsBlock(P: Float64Array, from: number, to: number, box: Float64Arra
   let nBad = 0
   for (let v = from; v < to; v++) {
     const x = P[3 * v]!, y = P[3 * v + 1]!, z = P[3 * v + 2]!
-    if (!Number.isFinite(x) || !Number.isFinite(y) || !Number.isFinite(z)) {
+    if (!(x - x + (y - y) + (z - z) === 0)) { // NaN exactly when a coordinate is NaN or ±Infinity
       nBad++
       if (bad.length < MAX_LISTED) bad.push(v)
       continue
@@ -453,8 +459,17 @@ function remapBlock(r: RemapState, from: number, to: number): void {
     let a = I0[3 * f]!, b = I0[3 * f + 1]!, c = I0[3 * f + 2]!
     if (weldMap) { a = weldMap[a]!; b = weldMap[b]!; c = weldMap[c]! }
     const ra = reps ? reps[a]! : a, rb = reps ? reps[b]! : b, rc = reps ? reps[c]! : c
-    if (a === b || b === c || c === a || zeroArea(P0, ra, rb, rc)) { if (degFaces.length < MAX_LISTED) degFaces.push(f); continue }
-    volSum = addTriple(volSum, P0, 3 * ra, 3 * rb, 3 * rc, cx, cy, cz)
+    if (a === b || b === c || c === a) { if (degFaces.length < MAX_LISTED) degFaces.push(f); continue }
+    // zero area: |u × v|² ≤ 1e-24 · (longest edge)⁴ (u, v: the edges from a)
+    const pa = 3 * ra, pb = 3 * rb, pc = 3 * rc
+    const ax = P0[pa]!, ay = P0[pa + 1]!, az = P0[pa + 2]!
+    const ux = P0[pb]! - ax, uy = P0[pb + 1]! - ay, uz = P0[pb + 2]! - az
+    const vx = P0[pc]! - ax, vy = P0[pc + 1]! - ay, vz = P0[pc + 2]! - az
+    const wx = vx - ux, wy = vy - uy, wz = vz - uz
+    const nx = uy * vz - uz * vy, ny = uz * vx - ux * vz, nz = ux * vy - uy * vx
+    const e2 = Math.max(ux * ux + uy * uy + uz * uz, vx * vx + vy * vy + vz * vz, wx * wx + wy * wy + wz * wz)
+    if (nx * nx + ny * ny + nz * nz <= 1e-24 * e2 * e2) { if (degFaces.length < MAX_LISTED) degFaces.push(f); continue }
+    volSum = addTriple(volSum, P0, pa, pb, pc, cx, cy, cz)
     I[3 * nf] = a; I[3 * nf + 1] = b; I[3 * nf + 2] = c
     faceOrigin[nf] = f
     if (count[a]!++ === 0) firstFace[a] = nf
@@ -464,18 +479,6 @@ function remapBlock(r: RemapState, from: number, to: number): void {
   }
   r.nf = nf
   r.volSum = volSum
-}
-
-/** True when the triangle of vertices a, b, c (indices into P, m) has zero area to working precision. */
-function zeroArea(P: Float64Array, a: number, b: number, c: number): boolean {
-  const ra = 3 * a, rb = 3 * b, rc = 3 * c
-  const ux = P[rb]! - P[ra]!, uy = P[rb + 1]! - P[ra + 1]!, uz = P[rb + 2]! - P[ra + 2]!
-  const vx = P[rc]! - P[ra]!, vy = P[rc + 1]! - P[ra + 1]!, vz = P[rc + 2]! - P[ra + 2]!
-  const wx = vx - ux, wy = vy - uy, wz = vz - uz
-  const cx = uy * vz - uz * vy, cy = uz * vx - ux * vz, cz = ux * vy - uy * vx
-  const cross2 = cx * cx + cy * cy + cz * cz
-  const e2 = Math.max(ux * ux + uy * uy + uz * uz, vx * vx + vy * vy + vz * vz, wx * wx + wy * wy + wz * wz)
-  return cross2 <= 1e-24 * e2 * e2
 }
 
 /**
@@ -543,14 +546,15 @@ function componentVolumes(P: Float64Array, I: Uint32Array, comp: Uint32Array, nC
 }
 
 /**
- * acc + the triple product (a − c)·((b − c) × (q − c)) of the points at offsets a, b, q of P, with
- * c = (cx, cy, cz), m³; added term by term (one rounding order shared by every volume sum here).
+ * acc + the triple product (a − c)·((b − a) × (q − a)) of the points at offsets a, b, q of P, with
+ * c = (cx, cy, cz), m³ (= (a − c)·((b − c) × (q − c)), with the small edge vectors formed first);
+ * one rounding order shared by every volume sum here.
  */
 function addTriple(acc: number, P: Float64Array, a: number, b: number, q: number, cx: number, cy: number, cz: number): number {
-  const ax = P[a]! - cx, ay = P[a + 1]! - cy, az = P[a + 2]! - cz
-  const bx = P[b]! - cx, by = P[b + 1]! - cy, bz = P[b + 2]! - cz
-  const qx = P[q]! - cx, qy = P[q + 1]! - cy, qz = P[q + 2]! - cz
-  return acc + ax * (by * qz - bz * qy) + ay * (bz * qx - bx * qz) + az * (bx * qy - by * qx)
+  const ax = P[a]!, ay = P[a + 1]!, az = P[a + 2]!
+  const ux = P[b]! - ax, uy = P[b + 1]! - ay, uz = P[b + 2]! - az
+  const vx = P[q]! - ax, vy = P[q + 1]! - ay, vz = P[q + 2]! - az
+  return acc + (ax - cx) * (uy * vz - uz * vy) + (ay - cy) * (uz * vx - ux * vz) + (az - cz) * (ux * vy - uy * vx)
 }
 
 /** Number of faces per component label 0 .. n−1. */
@@ -613,8 +617,7 @@ function nonManifoldVertices(I: Uint32Array, corners: VertexCorners, twin: Int32
  * same-direction edge) followed by the vertex-fan check accepts, without building half-edge
  * twins. Algorithm: a counting sort files each face corner under its vertex v as the pair
  * (next, previous) of the face's other vertices; around v, "previous of one face = next of the
- * following face" must link the pairs into one cycle through all of them, each link found exactly
- * once. Every out-going edge v → w is then unique, matched by exactly one w → v, and the faces at
+ * following face" must link the pairs into one cycle through all of them. Every out-going edge v → w is then unique, matched by exactly one w → v, and the faces at
  * v form a single disk; vertices used by no face are ignored. Degenerate faces (a repeated vertex)
  * give false. Memory: 8 bytes per corner plus 4 per vertex, freed on return.
  */
@@ -664,16 +667,17 @@ function singleFans(start: Uint32Array, pairs: Uint32Array, from: number, to: nu
   for (let v = from; v < to; v++) {
     const s = 2 * start[v]!, e = 2 * start[v + 1]!
     if (s === e) continue
+    // From the first corner, step to the first corner whose next vertex is this corner's previous
+    // one. The walk is deterministic, so returning to the start after exactly as many steps as
+    // there are corners means it met every corner once; each was then the first match of its next
+    // vertex, so no two corners share a next vertex (nor, through the cycle, a previous one).
     let k = s, steps = 0
     do {
-      // the one corner whose next vertex is this corner's previous vertex
       const w = pairs[k + 1]!
-      let found = -1
-      for (let j = s; j < e; j += 2) {
-        if (pairs[j] === w) { if (found !== -1) return false; found = j }
-      }
-      if (found === -1) return false
-      k = found
+      let j = s
+      while (j < e && pairs[j] !== w) j += 2
+      if (j === e) return false
+      k = j
       steps += 2
     } while (k !== s && steps <= e - s)
     if (k !== s || steps !== e - s) return false
