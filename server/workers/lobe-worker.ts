@@ -7,7 +7,7 @@ import { readlinkSync } from 'node:fs'
 import { readFile } from 'node:fs/promises'
 import { setPriority } from 'node:os'
 import { parentPort } from 'node:worker_threads'
-import { GeometryError, evaluationPoints, icosphere, massProperties, writePly, preparePolyhedron, readMesh, summarise, surfaceFieldWithEscape, validateMesh } from '../../shared/geometry'
+import { GeometryError, evaluationPoints, massProperties, preparePolyhedron, readMesh, summarise, surfaceFieldWithEscape, validateMesh, warmPipeline } from '../../shared/geometry'
 import type { PolyhedronModel, TriMesh, Vec3 } from '../../shared/geometry'
 import { decodeAnalysisMesh, encodeAnalysisMesh } from '../../shared/utils/mesh-binary'
 import { extraTasks } from './extra-tasks'
@@ -128,12 +128,9 @@ catch {
   // Not Linux, or not allowed: the worker keeps the default priority.
 }
 
-// Warm the hot loops once at start (a small in-memory sphere), so the first real upload does not
+// Warm the hot loops once at start (small in-memory spheres), so the first real upload does not
 // pay for the JIT's tier-up in the middle of a million-face mesh.
-{
-  const warm = validateMesh(readMesh(writePly(icosphere(5, 1), 'binary_little_endian')).mesh).mesh
-  massProperties(warm, { density: 1000 })
-}
+warmPipeline()
 
 port.on('message', async (msg: { id: number, task: string, payload: unknown }) => {
   const progress = (fraction: number, stage: string) => port.postMessage({ id: msg.id, progress: fraction, stage })
