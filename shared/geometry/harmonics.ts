@@ -5,12 +5,14 @@
  * P_lm without the Condon–Shortley phase, so
  *   C_lm, S_lm = (2 − δ_m0) (l−m)!/(l+m)! · (1/(M R^l)) ∫ ρ r^l P_lm(sin φ) {cos mλ, sin mλ} dV.
  * The solid harmonics r^l P_lm(sin φ){cos, sin}(mλ) are homogeneous polynomials of degree l in
- * (x, y, z) (built by the standard recurrences, no trigonometry), and the volume integrals are exact:
- * by Euler's theorem ∇·(x f) = (l+3) f for f homogeneous of degree l, so
+ * (x, y, z) (built by the standard recurrences, no trigonometry), so their volume integrals are
+ * combinations of the polyhedron's exact monomial moments (moments.ts), composed here as
+ * polynomials (`harmonicIntegralsFromMoments`; Werner 1997 obtains the same coefficients by a
+ * different recursion). A second, independent route, used to check the first in tests
+ * (`solidHarmonicIntegrals`): by Euler's theorem ∇·(x f) = (l+3) f for f homogeneous of degree l,
  *   ∫_V f dV = Σ_faces 3 V_t/(l+3) · (1/A_t) ∫_t f dA,
  * with V_t the signed volume of the tetrahedron (origin, face) and the triangle mean evaluated with
- * Dunavant's 6-point rule, exact for polynomials of degree 4. This equals the exact polynomial
- * moments of the polyhedron (Werner 1997 obtains the same coefficients by a different recursion).
+ * Dunavant's 6-point rule, exact for polynomials of degree 4.
  * 4π (Kaula) normalisation: C̄_lm = C_lm / N_lm, N_lm = √[(2−δ_m0)(2l+1)(l−m)!/(l+m)!].
  */
 import type { Mat3, TriMesh, Vec3 } from './types'
