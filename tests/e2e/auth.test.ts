@@ -350,6 +350,28 @@ describe('password-reset requests do not wait for the mail', () => {
   })
 })
 
+describe('an invitation whose mail cannot be sent', () => {
+  it('answers 502 naming the address, withdraws the invitation and audits both steps', async () => {
+    // Nothing listens on port 9 (discard) here: the SMTP connection is refused.
+    const server = await startServer({ SMTP_URL: 'smtp://127.0.0.1:9' })
+    try {
+      const admin = new Agent(server.url)
+      await admin.signIn('root@example.org', 'root-password-123')
+      const res = await admin.post('/api/invitations', { email: 'nomail@example.org', role: 'analyst' })
+      expect(res.status).toBe(502)
+      expect(res.json.message).toMatch(/nomail@example\.org.*withdrawn/)
+      const inv = (await admin.get('/api/invitations')).json.items.find((i: { email: string }) => i.email === 'nomail@example.org')
+      expect(inv.revokedAt).not.toBeNull()
+      const actions = (await admin.get('/api/audit?limit=20')).json.items.map((e: { action: string }) => e.action)
+      expect(actions).toContain('invitation.sent')
+      expect(actions).toContain('invitation.mail-failed')
+    }
+    finally {
+      await server.dispose()
+    }
+  })
+})
+
 describe('mail over real loopback SMTP in both directions', () => {
   it('sends through SMTP_URL to an outside SMTP server', async () => {
     const port = await freePort()

@@ -5,9 +5,12 @@ import { eq } from 'drizzle-orm'
 export default defineEventHandler(async (event) => {
   const actor = await requireRole(event, 'viewer')
   const { name } = await readBodyAs(event, accountUpdateSchema)
-  const [user] = await useDB().update(schema.users).set({ name }).where(eq(schema.users.id, actor.id)).returning()
-  if (!user) throw notFound('Account')
+  const user = await useDB().transaction(async (tx) => {
+    const [row] = await tx.update(schema.users).set({ name }).where(eq(schema.users.id, actor.id)).returning()
+    if (!row) throw notFound('Account')
+    await audit(event, { actorId: actor.id, action: 'account.renamed', subjectType: 'user', subjectId: actor.id }, tx)
+    return row
+  })
   if (actor.via === 'session') await startSession(event, user, actor.signedInAt)
-  await audit(event, { actorId: actor.id, action: 'account.renamed', subjectType: 'user', subjectId: actor.id })
   return memberView(user)
 })

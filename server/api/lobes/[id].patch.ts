@@ -19,17 +19,20 @@ export default defineEventHandler(async (event) => {
   let props = lobe.properties as unknown as MassProperties
   if (change.density !== undefined) props = withDensity(props, change.density)
   if (change.referenceRadius !== undefined) props = withReferenceRadius(props, change.referenceRadius ?? props.equivalentRadius)
-  const [updated] = await db.update(schema.lobes).set({
-    name: change.name ?? lobe.name,
-    density: change.density ?? lobe.density,
-    referenceRadius: change.referenceRadius === undefined ? lobe.referenceRadius : change.referenceRadius,
-    spinPeriodHours: change.spinPeriodHours === undefined ? lobe.spinPeriodHours : change.spinPeriodHours,
-    spinAxis: change.spinAxis === undefined ? lobe.spinAxis : change.spinAxis,
-    properties: props as unknown as Record<string, unknown>,
-    surface: change.density !== undefined || change.spinPeriodHours !== undefined || change.spinAxis !== undefined ? null : lobe.surface,
-  }).where(eq(schema.lobes.id, id)).returning()
+  const updated = await db.transaction(async (tx) => {
+    const [row] = await tx.update(schema.lobes).set({
+      name: change.name ?? lobe.name,
+      density: change.density ?? lobe.density,
+      referenceRadius: change.referenceRadius === undefined ? lobe.referenceRadius : change.referenceRadius,
+      spinPeriodHours: change.spinPeriodHours === undefined ? lobe.spinPeriodHours : change.spinPeriodHours,
+      spinAxis: change.spinAxis === undefined ? lobe.spinAxis : change.spinAxis,
+      properties: props as unknown as Record<string, unknown>,
+      surface: change.density !== undefined || change.spinPeriodHours !== undefined || change.spinAxis !== undefined ? null : lobe.surface,
+    }).where(eq(schema.lobes.id, id)).returning()
+    await audit(event, { actorId: actor.id, action: 'lobe.updated', subjectType: 'lobe', subjectId: id, detail: change }, tx)
+    return row!
+  })
   let job = (await latestJobs(db, [id])).get(id)
-  if (updated!.surface === null) job = await startSurfaceJob(db, updated!)
-  await audit(event, { actorId: actor.id, action: 'lobe.updated', subjectType: 'lobe', subjectId: id, detail: change })
-  return lobeView(updated!, job)
+  if (updated.surface === null) job = await startSurfaceJob(db, updated)
+  return lobeView(updated, job)
 })

@@ -6,21 +6,25 @@ export default defineEventHandler(async (event) => {
   const actor = await requireRole(event, 'admin')
   const { id } = paramsAs(event, idParamSchema)
   const change = await readBodyAs(event, memberUpdateSchema)
-  const db = useDB()
-  if (id === actor.id && (change.active === false || (change.role && change.role !== 'admin'))) {
-    // Keeps at least one admin able to manage the team.
-    const others = await db.select({ id: schema.users.id }).from(schema.users)
-      .where(and(eq(schema.users.role, 'admin'), eq(schema.users.active, true), ne(schema.users.id, actor.id))).get()
-    if (!others) throw createError({ status: 409, statusText: 'Conflict', message: 'You are the only active admin: make someone else admin first' })
-  }
-  const before = await db.select().from(schema.users).where(eq(schema.users.id, id)).get()
-  if (!before) throw notFound('Member')
-  const [user] = await db.update(schema.users).set(change).where(eq(schema.users.id, id)).returning()
-  if (change.role && change.role !== before.role) {
-    await audit(event, { actorId: actor.id, action: 'member.role-changed', subjectType: 'user', subjectId: id, detail: { from: before.role, to: change.role } })
-  }
-  if (change.active !== undefined && change.active !== before.active) {
-    await audit(event, { actorId: actor.id, action: change.active ? 'member.reactivated' : 'member.deactivated', subjectType: 'user', subjectId: id })
-  }
-  return memberView(user!)
+  // One write transaction: the last-admin check, the change and its audit events (two admins
+  // demoting each other at once cannot leave the team without one).
+  const user = await useDB().transaction(async (tx) => {
+    if (id === actor.id && (change.active === false || (change.role && change.role !== 'admin'))) {
+      // Keeps at least one admin able to manage the team.
+      const others = await tx.select({ id: schema.users.id }).from(schema.users)
+        .where(and(eq(schema.users.role, 'admin'), eq(schema.users.active, true), ne(schema.users.id, actor.id))).get()
+      if (!others) throw createError({ status: 409, statusText: 'Conflict', message: 'You are the only active admin: make someone else admin first' })
+    }
+    const before = await tx.select().from(schema.users).where(eq(schema.users.id, id)).get()
+    if (!before) throw notFound('Member')
+    const [after] = await tx.update(schema.users).set(change).where(eq(schema.users.id, id)).returning()
+    if (change.role && change.role !== before.role) {
+      await audit(event, { actorId: actor.id, action: 'member.role-changed', subjectType: 'user', subjectId: id, detail: { from: before.role, to: change.role } }, tx)
+    }
+    if (change.active !== undefined && change.active !== before.active) {
+      await audit(event, { actorId: actor.id, action: change.active ? 'member.reactivated' : 'member.deactivated', subjectType: 'user', subjectId: id }, tx)
+    }
+    return after!
+  })
+  return memberView(user)
 })

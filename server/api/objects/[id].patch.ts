@@ -26,12 +26,12 @@ export default defineEventHandler(async (event) => {
       await tx.update(schema.objects).set(set).where(eq(schema.objects.id, id))
       if (change.tags !== undefined) await writeTags(tx, id, change.tags)
       await writeManualLinks(tx as unknown as DB, id, actor.id, change.lobes, change.studies)
+      await audit(event, { actorId: actor.id, action: 'record.updated', subjectType: 'object', subjectId: id, detail: { fields: Object.keys(change) } }, tx)
     })
   }
   catch (error) {
     if (isDesignationClash(error)) throw recordConflict(`A record with the designation "${change.designation}" already exists`)
     throw error
   }
-  await audit(event, { actorId: actor.id, action: 'record.updated', subjectType: 'object', subjectId: id, detail: { fields: Object.keys(change) } })
   return (await loadRecord(db, id, actor.id))!.object
 })

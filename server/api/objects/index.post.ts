@@ -22,6 +22,7 @@ export default defineEventHandler(async (event) => {
       await writeTags(tx, row!.id, body.tags)
       await writeManualLinks(tx as unknown as DB, row!.id, actor.id, body.lobes, body.studies)
       await tx.insert(schema.objectFollows).values({ objectId: row!.id, userId: actor.id }).onConflictDoNothing()
+      await audit(event, { actorId: actor.id, action: 'record.created', subjectType: 'object', subjectId: row!.id, detail: { designation: body.designation, name: body.name } }, tx)
       return row!.id
     })
   }
@@ -29,7 +30,6 @@ export default defineEventHandler(async (event) => {
     if (isDesignationClash(error)) throw recordConflict(`A record with the designation "${body.designation}" already exists`)
     throw error
   }
-  await audit(event, { actorId: actor.id, action: 'record.created', subjectType: 'object', subjectId: id, detail: { designation: body.designation, name: body.name } })
   setResponseStatus(event, 201)
   return { id }
 })

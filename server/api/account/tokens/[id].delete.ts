@@ -6,8 +6,10 @@ export default defineEventHandler(async (event) => {
   const actor = await requireRole(event, 'viewer')
   const { id } = paramsAs(event, idParamSchema)
   const t = schema.apiTokens
-  const [row] = await useDB().update(t).set({ revokedAt: new Date() }).where(and(eq(t.id, id), eq(t.userId, actor.id), isNull(t.revokedAt))).returning()
-  if (!row) throw notFound('Token')
-  await audit(event, { actorId: actor.id, action: 'api-token.revoked', subjectType: 'api_token', subjectId: id })
+  await useDB().transaction(async (tx) => {
+    const [row] = await tx.update(t).set({ revokedAt: new Date() }).where(and(eq(t.id, id), eq(t.userId, actor.id), isNull(t.revokedAt))).returning()
+    if (!row) throw notFound('Token')
+    await audit(event, { actorId: actor.id, action: 'api-token.revoked', subjectType: 'api_token', subjectId: id }, tx)
+  })
   return { ok: true }
 })

@@ -6,8 +6,11 @@ export default defineEventHandler(async (event) => {
   if (actor.via === 'token') throw createError({ status: 403, statusText: 'Forbidden', message: 'Create tokens from a signed-in session, not with another token' })
   const { label } = await readBodyAs(event, apiTokenCreateSchema)
   const token = `ism_${newToken()}`
-  const [row] = await useDB().insert(schema.apiTokens).values({ userId: actor.id, label, tokenHash: hashToken(token), prefix: token.slice(0, 10) }).returning()
-  await audit(event, { actorId: actor.id, action: 'api-token.created', subjectType: 'api_token', subjectId: row!.id, detail: { label } })
+  const row = await useDB().transaction(async (tx) => {
+    const [created] = await tx.insert(schema.apiTokens).values({ userId: actor.id, label, tokenHash: hashToken(token), prefix: token.slice(0, 10) }).returning()
+    await audit(event, { actorId: actor.id, action: 'api-token.created', subjectType: 'api_token', subjectId: created!.id, detail: { label } }, tx)
+    return created
+  })
   setResponseStatus(event, 201)
   return { id: row!.id, label, prefix: row!.prefix, token }
 })
