@@ -1,4 +1,4 @@
-import { readdirSync } from 'node:fs'
+import { existsSync, readdirSync } from 'node:fs'
 import { join } from 'node:path'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { boxMesh, icosphere, writeObj, writePly } from '../../shared/geometry'
@@ -177,6 +177,29 @@ describe('lobe uploads through the API', () => {
     expect((await as.viewer.delete(`/api/lobes/${mine.json.id}`)).status).toBe(403)
     expect((await as.analyst.delete(`/api/lobes/${mine.json.id}`)).status).toBe(200)
     expect((await as.viewer.get(`/api/lobes/${mine.json.id}`)).status).toBe(404)
+  })
+
+  it('keeps a lobe that a record cites (409, nothing deleted, nothing audited); the last lobe of a file takes the stored file with it', async () => {
+    const cited = await upload(as.analyst, writeObj(boxMesh(2, 1, 1)), 'cited.obj', { density: '900' })
+    expect(cited.status).toBe(201)
+    const rec = await as.analyst.post('/api/objects', { designation: 'ZZ-DELETE-CHECK', name: 'Delete check', lobes: [cited.json.id] })
+    expect(rec.status).toBe(201)
+    const refused = await as.analyst.delete(`/api/lobes/${cited.json.id}`)
+    expect(refused.status).toBe(409)
+    expect(refused.json.message).toMatch(/cited by an object record/)
+    expect((await as.viewer.get(`/api/lobes/${cited.json.id}`)).status).toBe(200)
+    const audit = (await as.admin.get('/api/audit?limit=50')).json.items as { action: string, subjectId: string }[]
+    expect(audit.some(e => e.action === 'lobe.deleted' && e.subjectId === String(cited.json.id))).toBe(false)
+
+    const sql = server.sql()
+    const storedPath = String((await sql.execute({ sql: 'select stored_path from mesh_files where sha256 = ?', args: [cited.json.sha256] })).rows[0]![0])
+    expect(existsSync(join(server.env.UPLOADS_DIR!, storedPath))).toBe(true)
+    expect((await as.analyst.patch(`/api/objects/${rec.json.id}`, { lobes: [] })).status).toBe(200)
+    expect((await as.analyst.delete(`/api/lobes/${cited.json.id}`)).status).toBe(200)
+    expect(existsSync(join(server.env.UPLOADS_DIR!, storedPath))).toBe(false)
+    expect((await sql.execute({ sql: 'select count(*) from mesh_files where sha256 = ?', args: [cited.json.sha256] })).rows[0]![0]).toBe(0)
+    const after = (await as.admin.get('/api/audit?limit=50')).json.items as { action: string, subjectId: string }[]
+    expect(after.some(e => e.action === 'lobe.deleted' && e.subjectId === String(cited.json.id))).toBe(true)
   })
 
   it('exports JSON and CSV with full precision', async () => {
