@@ -23,7 +23,7 @@ import type { SpreadSample, SpreadSpec, SpreadSummary } from './spread'
 import { mergeMeshes } from './generate'
 import { dot } from './quat'
 
-export const CONTACT_ALGORITHM_VERSION = 'contact-1.1.0'
+export const CONTACT_ALGORITHM_VERSION = 'contact-1.2.0'
 
 export interface ContactStudyInput {
   meshA: TriMesh

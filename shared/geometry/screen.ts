@@ -2,7 +2,8 @@
  * Pathway screen for a close binary under the Sun's tide (SCIENCE.md §7). A SCREEN from classic
  * published formulas — quadrupole, test-particle Kozai–Lidov from e0 ≈ 0, secular J2 precession
  * for an equatorial orbit — not an integration: it says whether a path toward contact is plausible,
- * not that it happens.
+ * not that it happens. It also says whether the present orbit's pericentre is already within
+ * contact, in which case no cycles are needed.
  */
 import { GeometryError } from './types'
 import { G } from './kinematics'
@@ -50,7 +51,14 @@ export interface PathwayScreen {
   inKozaiWindow: boolean
   /** Quadrupole test-particle e_max = √(1 − (5/3)cos² i) from e0 ≈ 0 (0 outside the window). */
   eMax: number
-  /** a(1 − e_max), m, and whether it reaches the contact separation. */
+  /** Pericentre of the present mutual orbit a(1 − e), m, and whether it is already within contact. */
+  currentPericentre: number
+  currentPericentreReachesContact: boolean
+  /**
+   * a(1 − max(e, e_max)), m: the closer of the present pericentre and the one the cycles could
+   * bring (the cycles cannot undo what the present orbit already reaches), and whether it is
+   * within the contact separation.
+   */
   minimumPericentre: number
   minimumPericentreReachesContact: boolean
   /** t_KL = K (P_out²/P_in)(M_in+m3)/m3 (1−e_out²)^{3/2}, s, with K reported. */
@@ -104,6 +112,8 @@ export function pathwayScreen(s: ScreenInput): PathwayScreen {
   const wA = rate(s.J2A, s.referenceRadiusA)
   const wB = rate(s.J2B, s.referenceRadiusB)
   const quench = (wA + wB) * tKL
+  const q = a * (1 - e)
+  const qMin = a * (1 - Math.max(e, eMax))
   return {
     kind: 'screen',
     hillRadius: hill,
@@ -111,8 +121,10 @@ export function pathwayScreen(s: ScreenInput): PathwayScreen {
     aOverHill: a / hill,
     inKozaiWindow: inWindow,
     eMax,
-    minimumPericentre: a * (1 - eMax),
-    minimumPericentreReachesContact: a * (1 - eMax) <= s.contactSeparation,
+    currentPericentre: q,
+    currentPericentreReachesContact: q <= s.contactSeparation,
+    minimumPericentre: qMin,
+    minimumPericentreReachesContact: qMin <= s.contactSeparation,
     kozaiTimescale: tKL,
     klPrefactor: K,
     innerPeriod: Pin,
@@ -125,6 +137,7 @@ export function pathwayScreen(s: ScreenInput): PathwayScreen {
     verdict: !inWindow ? 'outside-window' : quench >= 1 ? 'quenched' : 'not-quenched',
     caveats: 'Screen only: quadrupole test-particle Kozai–Lidov from e0≈0 (no octupole, no tides, no '
       + 'YORP/BYORP); J2 rates for an equatorial orbit with each lobe\'s own J2 and radius; '
-      + 'quenching judged by ϖ̇·t_KL ≳ 1 (order of magnitude).',
+      + 'quenching judged by ϖ̇·t_KL ≳ 1 (order of magnitude).'
+      + (e > 0.1 ? ` The present orbit is eccentric (e = ${e.toFixed(2)}): e_max assumes a near-circular start; from this e the reachable e_max depends on the argument of pericentre, which the screen does not model.` : ''),
   }
 }

@@ -107,6 +107,20 @@ describe('pathwayScreen', () => {
     expect(s.minimumPericentreReachesContact).toBe(false)
     expect(s.verdict).toBe('outside-window')
   })
+  it('an eccentric present orbit: the minimum pericentre is never farther than the present one a(1 − e) (definition of pericentre)', () => {
+    // a = 2 km, e = 0.6: q = 800 m ≤ d = 900 m, outside the window (e_max 0 from a circular start)
+    const s = pathwayScreen({ ...input, eccentricity: 0.6, inclinationDeg: 30 })
+    expect(s.currentPericentre).toBeCloseTo(800, 9)
+    expect(s.currentPericentreReachesContact).toBe(true)
+    expect(s.minimumPericentre).toBeCloseTo(800, 9)
+    expect(s.minimumPericentreReachesContact).toBe(true)
+    expect(s.verdict).toBe('outside-window')
+    expect(s.caveats).toMatch(/near-circular start/)
+    // in the window with e_max = 0.7638 > e = 0.6 the cycles set it: a(1 − e_max)
+    expect(pathwayScreen({ ...input, eccentricity: 0.6 }).minimumPericentre).toBeCloseTo(2000 * (1 - 0.7637626), 3)
+    // the worked example's e = 0.2 pericentre, 1600 m, is outside contact
+    expect(pathwayScreen(input).currentPericentreReachesContact).toBe(false)
+  })
   it('without J2 (spherical lobes) nothing precesses: in the window the cycles are not quenched', () => {
     // ϖ̇ = (3/2) n J2 (R/a)² = 0 for J2 = 0 (Murray & Dermott 1999 ch. 6 [mem eq.]), so ϖ̇·t_KL = 0 < 1.
     const s = pathwayScreen({ ...input, J2A: 0, J2B: 0 })
