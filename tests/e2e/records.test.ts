@@ -267,6 +267,21 @@ describe('object records: attach, review, supersede, export, mail', () => {
     }
   })
 
+  it('lets nobody accept a value they proposed (four eyes); rejecting your own proposal withdraws it', async () => {
+    // an admin may both propose and review: not the same value (a record of its own, so that the
+    // other tests' counts stay as they are)
+    const own = await as.admin.post('/api/objects', { designation: 'ZZ-FOUR-EYES', name: 'Four eyes' })
+    expect(own.status, own.text).toBe(201)
+    const mine = await as.admin.post(`/api/objects/${own.json.id}/attachments`, { lobe: lobeDense.id, subject: 'whole-body', quantities: ['surfaceArea', 'volume'] })
+    expect(mine.status, mine.text).toBe(201)
+    const [area, volume] = mine.json.items
+    const self = await as.admin.post(`/api/attachments/${area.id}/review`, { decision: 'accept', comment: 'my own' })
+    expect(self.status).toBe(403)
+    expect(self.json.message).toMatch(/You proposed this value: another reviewer must accept it/)
+    expect((await as.reviewer.post(`/api/attachments/${area.id}/review`, { decision: 'accept', comment: 'checked by another' })).status).toBe(200)
+    expect((await as.admin.post(`/api/attachments/${volume.id}/review`, { decision: 'reject', comment: 'withdrawn' })).status).toBe(200)
+  })
+
   it('accepts and rejects with a comment, mails the analyst, and answers 409 to a second decision', async () => {
     const rec = (await as.viewer.get(`/api/objects/${recordId}`)).json
     const pick = (k: string) => rec.attachments.find((a: any) => a.quantityKey === k && a.state === 'proposed')

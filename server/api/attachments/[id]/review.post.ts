@@ -6,7 +6,8 @@ import { attachmentReviewSchema } from '#shared/types/records'
  * Accept or reject a proposed value (reviewer). The decision is one conditional UPDATE … WHERE
  * state = 'proposed' inside a write transaction, so of two concurrent reviewers exactly one wins;
  * the other (and any later decision) answers 409. Accepting supersedes the current accepted value
- * of the same quantity, subject and reference radius (it stays in the history).
+ * of the same quantity, subject and reference radius (it stays in the history). Nobody accepts a
+ * value they proposed (403); rejecting one's own proposal withdraws it.
  */
 export default defineEventHandler(async (event) => {
   const actor = await requireRole(event, 'reviewer')
@@ -21,6 +22,10 @@ export default defineEventHandler(async (event) => {
     const target = await tx.select().from(a).where(eq(a.id, id)).get()
     if (!target) throw notFound('Attachment')
     if (target.state !== 'proposed') throw recordConflict(`Attachment #${id} was already decided (${target.state})`)
+    // Four eyes: a value is accepted by someone other than the member who proposed it.
+    if (state === 'accepted' && target.proposedBy === actor.id) {
+      throw createError({ status: 403, statusText: 'Forbidden', message: 'You proposed this value: another reviewer must accept it (you can reject it to withdraw it)' })
+    }
     let superseded: number[] = []
     if (state === 'accepted') {
       const rows = await tx.update(a).set({ state: 'superseded', supersededBy: id, supersededAt: now })
