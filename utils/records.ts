@@ -1,11 +1,14 @@
 /** Display helpers for record values (pages only; exports keep full precision). */
+import { fmt } from './format'
 
-/** A value for reading: 6 significant digits, or the exact form when it is already short. */
+/**
+ * A value for reading: 6 significant digits, or every digit when there are at most 7; powers of
+ * ten written as on the lobe pages (2.99291×10¹²), never as 2.99291e+12.
+ */
 export function formatRecordNumber(v: number): string {
   const exact = String(v)
-  if (exact.replace(/^-|\.|e.*$/g, '').length <= 7) return exact
-  const abs = Math.abs(v)
-  return abs !== 0 && (abs >= 1e6 || abs < 1e-3) ? v.toExponential(5) : String(Number(v.toPrecision(6)))
+  if (exact.replace(/^-|\.|e.*$/g, '').length <= 7) return exact.includes('e') ? fmt(v, 7) : exact
+  return fmt(v, 6)
 }
 
 export function formatRecordValue(value: number | number[] | null | undefined): string {

@@ -1,5 +1,6 @@
 import { describe, expect, it } from 'vitest'
 import { fmt, fmtRange, fmtValue, fmtVec } from '../../../utils/format'
+import { formatRecordNumber } from '../../../utils/records'
 
 describe('display rounding: round-off residue shows as 0, real small values do not', () => {
   it('a unit vector built with cos(π/2) shows an exact 0', () => {
@@ -29,5 +30,16 @@ describe('display rounding: round-off residue shows as 0, real small values do n
     expect(fmt(3e-17, 5, 1)).toBe('0')
     expect(fmt(-0)).toBe('0')
     expect(fmtRange({ min: 1e-14, max: 120, mean: 60 })).toBe('60 (0 – 120)')
+  })
+})
+
+describe('formatRecordNumber (record pages): the lobe pages\' notation', () => {
+  it('keeps short values exact, rounds long ones to 6 digits, and writes powers of ten as ×10ⁿ', () => {
+    expect(formatRecordNumber(0.56712)).toBe('0.56712')
+    expect(formatRecordNumber(203.66608026658307)).toBe('203.666')
+    expect(formatRecordNumber(2992912345678.9)).toBe('2.99291×10¹²')
+    expect(formatRecordNumber(3e21)).toBe('3×10²¹')
+    expect(formatRecordNumber(-4.2e-7)).toBe('-4.2×10⁻⁷')
+    expect(formatRecordNumber(1.23456789e-5)).toBe('1.23457×10⁻⁵')
   })
 })
