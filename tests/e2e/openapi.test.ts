@@ -42,6 +42,8 @@ describe('the OpenAPI document', () => {
     expect(html).toContain('&quot;volume&quot;')
     // a path parameter declared once for the path shows under each of its operations
     expect(html).toMatch(/data-route="PATCH \/api\/objects\/\{id\}"[\s\S]*?<td class="font-mono text-xs">id<span title="required">\*<\/span><\/td><td>path<\/td>/)
+    // every named data shape, with its fields
+    for (const name of Object.keys(doc.components.schemas)) expect(html, name).toContain(`data-shape="${name}"`)
     // members only, like every page but sign-in
     expect((await new Agent(server.url).get('/api-reference')).text).not.toContain('data-route=')
   })
