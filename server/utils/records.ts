@@ -137,7 +137,8 @@ export async function loadRecord(db: DB, id: number, viewerId?: number) {
     db.select({ userId: schema.objectFollows.userId }).from(schema.objectFollows).where(eq(schema.objectFollows.objectId, id)),
   ])
   const names = await memberNames(db, [o.createdBy, ...rows.flatMap(a => [a.proposedBy, a.reviewedBy]), ...comments.map(c => c.attachment_comments.authorId)])
-  const items = rows.map(a => attachmentView(a, names))
+  const changes = await sourceChanges(db, rows)
+  const items = rows.map(a => ({ ...attachmentView(a, names), sourceChanges: changes.get(a.id) ?? [] }))
   const commentViews = comments.map(c => commentView(c.attachment_comments, names))
   const thread: Record<number, ReturnType<typeof commentView>[]> = {}
   for (const c of commentViews) (thread[c.attachmentId] ??= []).push(c)
@@ -159,6 +160,36 @@ export async function loadRecord(db: DB, id: number, viewerId?: number) {
   }
 }
 export type RecordData = NonNullable<Awaited<ReturnType<typeof loadRecord>>>
+
+/**
+ * What changed in the source lobes since each value was attached (density, reference radius,
+ * spin, mesh file), from the frozen provenance against the lobes as they are now: the values stay
+ * as frozen, but a reviewer should know that re-attaching would give other numbers.
+ */
+async function sourceChanges(db: DB, rows: Attachment[]): Promise<Map<number, string[]>> {
+  type Frozen = { id?: number, name?: string, densityKgM3?: number, referenceRadiusM?: number | null, spinPeriodHours?: number | null, sha256?: string }
+  const frozen = (a: Attachment): [string, Frozen][] => {
+    const p = a.provenance as { lobe?: Frozen, lobeA?: Frozen, lobeB?: Frozen }
+    return p.lobe ? [['the lobe', p.lobe]] : [['lobe A', p.lobeA ?? {}], ['lobe B', p.lobeB ?? {}]]
+  }
+  const ids = [...new Set(rows.flatMap(a => frozen(a).map(([, l]) => l.id)).filter((i): i is number => typeof i === 'number'))]
+  const now = new Map((ids.length ? await db.select().from(schema.lobes).where(inArray(schema.lobes.id, ids)) : []).map(l => [l.id, l]))
+  const out = new Map<number, string[]>()
+  for (const a of rows) {
+    const list: string[] = []
+    for (const [who, f] of frozen(a)) {
+      const l = f.id === undefined ? undefined : now.get(f.id)
+      if (!l) continue
+      const name = `${who} (#${l.id} ${l.name})`
+      if (f.densityKgM3 !== undefined && f.densityKgM3 !== l.density) list.push(`${name}: density ${f.densityKgM3} → ${l.density} kg m⁻³`)
+      if (f.referenceRadiusM !== undefined && (f.referenceRadiusM ?? null) !== (l.referenceRadius ?? null)) list.push(`${name}: reference radius ${f.referenceRadiusM ?? 'volume-equivalent'} → ${l.referenceRadius ?? 'volume-equivalent'} (m)`)
+      if (f.spinPeriodHours !== undefined && (f.spinPeriodHours ?? null) !== (l.spinPeriodHours ?? null)) list.push(`${name}: spin period ${f.spinPeriodHours ?? 'none'} → ${l.spinPeriodHours ?? 'none'} (h)`)
+      if (f.sha256 !== undefined && f.sha256 !== l.sha256) list.push(`${name}: mesh file changed`)
+    }
+    if (list.length) out.set(a.id, list)
+  }
+  return out
+}
 
 function lobeBlock(l: Lobe) {
   return {

@@ -282,6 +282,22 @@ describe('object records: attach, review, supersede, export, mail', () => {
     expect((await as.admin.post(`/api/attachments/${volume.id}/review`, { decision: 'reject', comment: 'withdrawn' })).status).toBe(200)
   })
 
+  it('tells when a source lobe changed after a value was attached; the value itself stays as frozen', async () => {
+    const lobe = await uploadLobe(as.analyst, writeObj(boxMesh(1, 2, 1)), 'drifting.obj', { density: '1000', units: 'km' })
+    expect(lobe.status, lobe.text).toBe(201)
+    const own = await as.analyst.post('/api/objects', { designation: 'ZZ-DRIFT', name: 'Drift' })
+    const att = await as.analyst.post(`/api/objects/${own.json.id}/attachments`, { lobe: lobe.json.id, quantities: ['mass'] })
+    expect(att.status, att.text).toBe(201)
+    const before = (await as.viewer.get(`/api/objects/${own.json.id}`)).json.attachments[0]
+    expect(before.sourceChanges).toEqual([])
+    expect((await as.analyst.patch(`/api/lobes/${lobe.json.id}`, { density: 1200 })).status).toBe(200)
+    const after = (await as.viewer.get(`/api/objects/${own.json.id}`)).json.attachments[0]
+    expect(after.sourceChanges).toEqual([`the lobe (#${lobe.json.id} drifting): density 1000 → 1200 kg m⁻³`])
+    // 2 km³ at 1000 kg m⁻³, as attached (box 1 × 2 × 1 km)
+    expect(after.value).toBe(before.value)
+    expect(after.value).toBeCloseTo(2e9 * 1000, -3)
+  })
+
   it('accepts and rejects with a comment, mails the analyst, and answers 409 to a second decision', async () => {
     const rec = (await as.viewer.get(`/api/objects/${recordId}`)).json
     const pick = (k: string) => rec.attachments.find((a: any) => a.quantityKey === k && a.state === 'proposed')
