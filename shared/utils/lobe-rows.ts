@@ -32,6 +32,18 @@ export const LOBE_PROPERTY_ROWS: PropertyRow[] = [
   { key: 'geopotentialHeight', label: 'Geopotential height: mean (min – max)', unit: 'm', help: '(U_max − U)/ḡ of the effective potential: height above the lowest point.' },
 ]
 
+/**
+ * Further values the exports carry (the page shows them in their own layout): the full inertia
+ * tensor and the frames, the degree-2 set in the file frame and the degree ≤ 4 harmonics.
+ */
+export const LOBE_EXPORT_EXTRA_ROWS: PropertyRow[] = [
+  { key: 'inertia', label: 'Inertia tensor about the centre of mass', unit: 'kg m²', help: 'File axes; I = tr(C)E − C, so off-diagonal elements are minus the products of inertia. Row-major [i][j].' },
+  { key: 'principalAxes', label: 'Principal axes (rows, A ≤ B ≤ C)', unit: '—', help: 'Unit rows in the file frame, right-handed.' },
+  { key: 'rotationToPrincipal', label: 'Rotation file → principal frame', unit: '—', help: 'Rows = principal axes; maps file-frame vectors relative to the centre of mass into the principal frame.' },
+  { key: 'degree2', label: 'Degree-2 coefficients, file frame', unit: '—', help: 'Unnormalised C20, C21, S21, C22, S22 in the FILE frame about the centre of mass (MacCullagh), at the reference radius.' },
+  { key: 'harmonics', label: 'Harmonics to degree 4, principal frame', unit: '—', help: 'C[l][m], S[l][m] unnormalised and normalized (4π), principal frame about the centre of mass, at harmonics.referenceRadius (m), no Condon–Shortley phase.' },
+]
+
 /** Flattens a value into CSV cells: vectors and {min,max,mean} become several rows. */
 export function flattenValue(key: string, value: unknown): { key: string, value: number }[] {
   if (typeof value === 'number') return [{ key, value }]

@@ -214,4 +214,22 @@ describe('lobe uploads through the API', () => {
     const mesh = await fetch(`${server.url}/api/lobes/${res.json.id}/mesh`, { headers: { cookie: '' } })
     expect(mesh.status).toBe(401)
   })
+
+  it('exports the inertia tensor, the frames, the file-frame degree-2 set and the harmonics, each with its unit and meaning', async () => {
+    const res = await upload(as.analyst, writeObj(boxMesh(3, 2, 1)), 'brick.obj', { density: '2000', units: 'km' })
+    const p = res.json.properties
+    const rows = (await as.viewer.get(`/api/lobes/${res.json.id}/export.csv`)).text.split('\r\n')
+    const cell = (q: string) => Number(rows.find(l => l.startsWith(`${q},`))!.split(',')[1])
+    expect(cell('inertia[0][0]')).toBe(p.inertia[0][0])
+    // box 3 × 2 × 1 km: I_xx = M(b² + c²)/12 (textbook closed form)
+    expect(cell('inertia[0][0]')).toBeCloseTo(2000 * 6e9 * (4e6 + 1e6) / 12, -12)
+    expect(cell('principalAxes[2][2]')).toBe(p.principalAxes[2][2])
+    expect(cell('harmonics.C[2][0]')).toBe(p.harmonics.C[2][0])
+    expect(cell('harmonics.normalized.C[4][0]')).toBe(p.harmonics.normalized.C[4][0])
+    expect(rows.some(l => l.startsWith('degree2.C22,'))).toBe(true)
+    const json = (await as.viewer.get(`/api/lobes/${res.json.id}/export.json`)).json
+    expect(json.units).toMatchObject({ inertia: 'kg m²', harmonics: '—', degree2: '—' })
+    expect(json.meanings.degree2).toMatch(/FILE frame/)
+    expect(json.meanings.harmonics).toMatch(/principal frame/)
+  })
 })

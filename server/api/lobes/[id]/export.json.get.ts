@@ -8,7 +8,9 @@ export default defineEventHandler(async (event) => {
   setResponseHeader(event, 'content-disposition', `attachment; filename="lobe-${id}.json"`)
   return {
     ...view,
-    units: Object.fromEntries(LOBE_PROPERTY_ROWS.map(r => [r.key, r.unit])),
+    units: Object.fromEntries([...LOBE_PROPERTY_ROWS, ...LOBE_EXPORT_EXTRA_ROWS].map(r => [r.key, r.unit])),
+    /** What each exported quantity means, its frame and assumptions. */
+    meanings: Object.fromEntries([...LOBE_PROPERTY_ROWS, ...LOBE_EXPORT_EXTRA_ROWS].map(r => [r.key, r.help])),
     provenance: { sourceFileName: view.sourceFileName, sha256: view.sha256, units: view.units, density: view.properties.density, spinPeriodS, spin: spinPeriodS === null ? 'not rotating' : `rotating, period ${spinPeriodS} s (${view.spinPeriodHours} h)`, algorithmVersion: view.algorithmVersion, exportedAt: new Date().toISOString() },
   }
 })
