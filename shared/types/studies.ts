@@ -62,6 +62,11 @@ export const studyInputSchema = z.object({
     neck: z.boolean().default(true),
   }).optional(),
 }).superRefine((v, ctx) => {
+  // A lobe cannot meet itself: the first contact, neck and merged body of one mesh with its own copy
+  // in the same place are meaningless (two copies of a mesh uploaded as two lobes are accepted).
+  if (v.lobeA === v.lobeB) {
+    ctx.addIssue({ code: 'custom', path: ['lobeB'], message: 'lobe B must be a different lobe from lobe A: a lobe cannot be studied against itself' })
+  }
   if (v.orbitNormal && Math.abs(v.orbitNormal[0] * v.direction[0] + v.orbitNormal[1] * v.direction[1] + v.orbitNormal[2] * v.direction[2]) > 1e-6) {
     ctx.addIssue({ code: 'custom', path: ['orbitNormal'], message: 'orbitNormal must be perpendicular to direction' })
   }

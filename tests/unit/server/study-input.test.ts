@@ -18,3 +18,17 @@ describe('study input: pathway screen needs a bound orbit', () => {
     expect(studyInputSchema.safeParse({ ...base, screen: undefined, orbit: { kind: 'parabolic' } }).success).toBe(true)
   })
 })
+
+// A lobe cannot meet itself: the first contact of a mesh with its own copy in the same place is undefined.
+describe('study input: lobe A and lobe B must differ', () => {
+  const base = { direction: [1, 0, 0], orbit: { kind: 'parabolic' } }
+  it('refuses a lobe against itself, naming lobeB', () => {
+    const r = studyInputSchema.safeParse({ ...base, lobeA: 3, lobeB: 3 })
+    expect(r.success).toBe(false)
+    const issue = r.error!.issues.find(i => i.path.join('.') === 'lobeB')
+    expect(issue?.message).toMatch(/different lobe from lobe A/)
+  })
+  it('accepts two different lobes', () => {
+    expect(studyInputSchema.safeParse({ ...base, lobeA: 3, lobeB: 4 }).success).toBe(true)
+  })
+})
