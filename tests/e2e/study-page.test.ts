@@ -153,6 +153,42 @@ describe('in a real browser: the study result page', () => {
     await page.close()
   })
 
+  it('does not offer a lobe against itself; follows the lobes with the spread\'s density range; shows units and where defaults come from', async () => {
+    const signIn = await browser.context.request.post(`${server.url}/api/session`, { data: { email: 'analyst@example.org', password: 'isthmus-demo' }, headers: { origin: server.url } })
+    expect(signIn.status()).toBe(200)
+    const page = await browser.context.newPage()
+    await page.goto(`${server.url}/studies/new?lobeA=${lobeIds[0]}&lobeB=${lobeIds[1]}`)
+    // Lobe A's choice is not offered as B (and B's not as A).
+    const disabled = (side: string) => page.locator(`#lobe-${side} option`).evaluateAll(os => (os as HTMLOptionElement[]).filter(o => o.disabled && /^\d+$/.test(o.value)).map(o => Number(o.value)))
+    await expect.poll(() => disabled('B')).toEqual([lobeIds[0]])
+    expect(await disabled('A')).toEqual([lobeIds[1]])
+    // Units in the labels.
+    await page.getByLabel('Kind').selectOption('bound')
+    for (const label of ['Semi-major axis a (km)', 'Eccentricity e (dimensionless', 'Settling depth after touching (m, not km', 'Neck sweep steps (count', 'Observed spin period (h, hours']) {
+      expect(await page.getByText(label).count(), label).toBe(1)
+    }
+    expect(await page.getByTestId('hint-semi-major-axis').innerText()).toMatch(/Default: 4 × the sum of the lobes' largest centroid-to-vertex distances \(4 × 1\.7 km\)/)
+    expect(await page.getByTestId('hint-overlap-depth').innerText()).toMatch(/Default: 2 % of the smaller lobe's volume-equivalent radius/)
+    // Both lobes at 800 kg m⁻³: the spread's density range is 0.6 × 800 = 480 to 1.4 × 800 = 1120, not a fixed 300–1200.
+    await page.getByLabel('Spread over uncertain inputs').check()
+    await expect.poll(() => page.locator('input[name=densityMin]').inputValue()).toBe('480')
+    expect(await page.locator('input[name=densityMax]').inputValue()).toBe('1120')
+    expect(await page.getByTestId('hint-density-range').innerText()).toContain('(800 and 800 kg m⁻³)')
+    expect(await page.getByTestId('density-range-warning').count()).toBe(0)
+    // A study density of 1500 for A moves the range with it (0.6 × 800 = 480 to 1.4 × 1500 = 2100).
+    await page.locator('input[name=densityA]').fill('1500')
+    await expect.poll(() => page.locator('input[name=densityMax]').inputValue()).toBe('2100')
+    expect(await page.locator('input[name=densityMin]').inputValue()).toBe('480')
+    // A range edited to exclude a nominal density is flagged.
+    await page.locator('input[name=densityMax]').fill('1000')
+    await expect.poll(() => page.getByTestId('density-range-warning').innerText()).toMatch(/density of A \(1500 kg m⁻³\) lies outside the spread's range 480–1000 kg m⁻³/)
+    // The same lobe on both sides (from a link): said at once, and the study cannot be run.
+    await page.goto(`${server.url}/studies/new?lobeA=${lobeIds[0]}&lobeB=${lobeIds[0]}`)
+    await expect.poll(() => page.getByTestId('same-lobe').count()).toBe(1)
+    expect(await page.getByRole('button', { name: 'Run the study' }).isDisabled()).toBe(true)
+    await page.close()
+  })
+
   it('warns in the New study form when the orbit surely misses, and defaults a bound orbit to one that touches', async () => {
     const signIn = await browser.context.request.post(`${server.url}/api/session`, { data: { email: 'analyst@example.org', password: 'isthmus-demo' }, headers: { origin: server.url } })
     expect(signIn.status()).toBe(200)
