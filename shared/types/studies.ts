@@ -62,6 +62,11 @@ export const studyInputSchema = z.object({
     neck: z.boolean().default(true),
   }).optional(),
 }).superRefine((v, ctx) => {
+  // A lobe cannot meet itself: the first contact, neck and merged body of one mesh with its own copy
+  // in the same place are meaningless (two copies of a mesh uploaded as two lobes are accepted).
+  if (v.lobeA === v.lobeB) {
+    ctx.addIssue({ code: 'custom', path: ['lobeB'], message: 'lobe B must be a different lobe from lobe A: a lobe cannot be studied against itself' })
+  }
   if (v.orbitNormal && Math.abs(v.orbitNormal[0] * v.direction[0] + v.orbitNormal[1] * v.direction[1] + v.orbitNormal[2] * v.direction[2]) > 1e-6) {
     ctx.addIssue({ code: 'custom', path: ['orbitNormal'], message: 'orbitNormal must be perpendicular to direction' })
   }
@@ -82,3 +87,27 @@ export const studyListQuerySchema = z.object({
 })
 
 export const AU_M = 149_597_870_700
+
+/** Factors of the default spread density range: from 0.6 × the lower to 1.4 × the higher lobe density. */
+export const SPREAD_DENSITY_BAND = { low: 0.6, high: 1.4 } as const
+
+/** `x` (kg m⁻³) rounded down (`dir` −1) or up (+1) to a step of 10 kg m⁻³, finer below 100 (two significant digits at least). */
+function roundDensity(x: number, dir: -1 | 1): number {
+  const step = Math.min(10, 10 ** (Math.floor(Math.log10(x)) - 1))
+  const n = dir < 0 ? Math.floor(x / step + 1e-9) : Math.ceil(x / step - 1e-9)
+  return Number((n * step).toPrecision(12))
+}
+
+/**
+ * The new-study form's default density range for the spread, kg m⁻³: a band around the lobes'
+ * densities, from 0.6 × the lower to 1.4 × the higher, rounded outward to 10 kg m⁻³ (finer below
+ * 100 kg m⁻³), so that the range always contains both nominal densities (e.g. 1500 and 1500 →
+ * 900–2100). Null when either density is not a positive number.
+ */
+export function defaultSpreadDensityRange(densityA: number, densityB: number): { min: number, max: number } | null {
+  if (!(densityA > 0) || !(densityB > 0) || !Number.isFinite(densityA) || !Number.isFinite(densityB)) return null
+  return {
+    min: roundDensity(SPREAD_DENSITY_BAND.low * Math.min(densityA, densityB), -1),
+    max: roundDensity(SPREAD_DENSITY_BAND.high * Math.max(densityA, densityB), 1),
+  }
+}

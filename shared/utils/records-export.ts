@@ -72,24 +72,35 @@ export function recordSpreadParts(spread: SpreadLike): RecordSpreadParts | null 
 
 /**
  * How far a study spread's centre (its median, else its mean) sits from the nominal value it is
- * shown beside, or null when it is centred on it or cannot say (vectors, surface ranges).
+ * shown beside, and whether the value lies outside the spread's range [min, max]; null when the
+ * spread is centred on the value and contains it, or cannot say (vectors, surface ranges).
  *
  * A spread samples its own inputs (a density range, a cone of directions), so its centre need not be
  * the nominal run's value. "Centred" allows for sampling noise: the offset must exceed twice the
  * large-sample standard error of a median, sqrt(π/2)·σ/√n (normal parent; Kendall & Stuart, The
  * Advanced Theory of Statistics, vol. 1, §10.10 [mem]), and at least 0.1 σ (common practice, no source).
+ * A value outside [min, max] is reported whatever the offset (`outside`: 'below' every sample or 'above').
  */
-export function recordSpreadOffset(value: number | number[], spread: SpreadLike): { centre: number, by: number, sigmas: number | null } | null {
+export function recordSpreadOffset(value: number | number[], spread: SpreadLike): { centre: number, by: number, sigmas: number | null, centred: boolean, outside: 'below' | 'above' | null, min?: number, max?: number } | null {
   const p = recordSpreadParts(spread)
   if (!p || p.basis !== 'study-spread' || Array.isArray(value) || !Number.isFinite(value)) return null
   const centre = p.median ?? p.mean
   if (centre === undefined) return null
   const by = centre - value
+  // Outside [min, max] beyond float round-off (1e-9 relative; common practice, no source): a spread of
+  // identical samples equal to the value, up to the last bits, contains it.
+  const tol = 1e-9 * Math.max(Math.abs(value), Math.abs(p.min ?? 0), Math.abs(p.max ?? 0))
+  const outside = p.min !== undefined && value < p.min - tol ? 'below' : p.max !== undefined && value > p.max + tol ? 'above' : null
+  let centred: boolean
   if (p.sd !== undefined && p.sd > 0) {
     const noise = p.n !== undefined && p.n > 0 ? 2 * Math.sqrt(Math.PI / 2) * p.sd / Math.sqrt(p.n) : 0
-    return Math.abs(by) > Math.max(0.1 * p.sd, noise) ? { centre, by, sigmas: by / p.sd } : null
+    centred = Math.abs(by) <= Math.max(0.1 * p.sd, noise)
   }
-  return Math.abs(by) > 1e-9 * Math.max(Math.abs(centre), Math.abs(value)) ? { centre, by, sigmas: null } : null
+  else {
+    centred = Math.abs(by) <= 1e-9 * Math.max(Math.abs(centre), Math.abs(value))
+  }
+  if (centred && !outside) return null
+  return { centre, by, sigmas: p.sd !== undefined && p.sd > 0 ? by / p.sd : null, centred, outside, min: p.min, max: p.max }
 }
 
 /**
@@ -114,7 +125,7 @@ export function recordSpreadText(spread: SpreadLike, fmt: (v: number) => string 
 }
 
 /**
- * A plain note when a study spread is not centred on the nominal value, else ''.
+ * A plain note when a study spread is not centred on the nominal value or does not contain it, else ''.
  * @param unit printed after the offset ('' or '1' for none)
  */
 export function recordSpreadNote(value: number | number[], spread: SpreadLike, unit = '', fmt: (v: number) => string = recordNumberText): string {
@@ -122,7 +133,10 @@ export function recordSpreadNote(value: number | number[], spread: SpreadLike, u
   if (!off) return ''
   const u = unit && unit !== '1' ? ` ${unit}` : ''
   const sig = off.sigmas === null ? '' : `, ${Math.abs(off.sigmas).toFixed(2)}σ`
-  return `The spread is not centred on the nominal value: its centre ${fmt(off.centre)}${u} lies ${fmt(Math.abs(off.by))}${u} ${off.by > 0 ? 'above' : 'below'} it${sig}. `
+  const range = off.min !== undefined && off.max !== undefined ? ` [${fmt(off.min)}, ${fmt(off.max)}]${u}` : ''
+  const outside = off.outside ? `The nominal value ${fmt(value as number)}${u} lies outside the spread's range${range} (${off.outside} every sample). ` : ''
+  const centre = off.centred ? '' : `The spread is not centred on the nominal value: its centre ${fmt(off.centre)}${u} lies ${fmt(Math.abs(off.by))}${u} ${off.by > 0 ? 'above' : 'below'} it${sig}. `
+  return centre + outside
     + 'The spread sampled different inputs (e.g. a density range) from the nominal run; quote its centre with its σ, not the nominal value.'
 }
 

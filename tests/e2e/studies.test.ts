@@ -94,6 +94,11 @@ describe('contact studies through the API', () => {
     const missing = await as.analyst.post('/api/studies', { lobeA: a.id, lobeB: 999999, direction: [1, 0, 0], orbit: { kind: 'parabolic' } })
     expect(missing.status).toBe(422)
     expect(missing.json.data.issues[0].path).toBe('lobeB')
+    // A lobe against itself is refused, naming lobeB, and nothing is queued.
+    const self = await as.analyst.post('/api/studies', { lobeA: a.id, lobeB: a.id, direction: [1, 0, 0], orbit: { kind: 'parabolic' } })
+    expect(self.status).toBe(422)
+    expect(self.json.data.issues).toEqual([{ path: 'lobeB', message: expect.stringMatching(/different lobe from lobe A/) }])
+    expect((await as.viewer.get(`/api/studies?pairA=${a.id}&pairB=${a.id}`)).json.items).toEqual([])
     expect((await as.viewer.post('/api/studies', { lobeA: a.id, lobeB: b.id, direction: [1, 0, 0], orbit: { kind: 'parabolic' } })).status).toBe(403)
   })
 

@@ -10,6 +10,8 @@ describe('in a real browser: the study result page', () => {
   let browser: Awaited<ReturnType<typeof openBrowser>>
   let studyId: number
   let missId: number
+  let offId: number
+  let tensionId: number
   let lobeIds: [number, number]
   let masses: number
   beforeAll(async () => {
@@ -24,6 +26,13 @@ describe('in a real browser: the study result page', () => {
     // A bound orbit whose pericentre (5 km) is far beyond the 1.7 km contact separation, with a spread asked for.
     const miss = await analyst.post('/api/studies', { lobeA: a.id, lobeB: b.id, direction: [0, 1, 0], orbit: { kind: 'bound', semiMajorAxis: 10_000, eccentricity: 0.5 }, spread: { seed: 1, samples: 4, densityA: prior, densityB: prior, coneHalfAngleDeg: 0, scale: { kind: 'fixed', value: 1 } } })
     missId = (await waitForStudy(analyst, miss.json.id)).id
+    // A spread over 1500–2500 kg m⁻³ while the nominal run uses 800: every sample is faster than the nominal.
+    const off = await analyst.post('/api/studies', { lobeA: a.id, lobeB: b.id, direction: [0, 0, 1], orbit: { kind: 'parabolic' }, sweepSteps: 0, spread: { seed: 5, samples: 8, densityA: { kind: 'uniform', min: 1500, max: 2500 }, densityB: { kind: 'uniform', min: 1500, max: 2500 }, coneHalfAngleDeg: 0, scale: { kind: 'fixed', value: 1 }, neck: false } })
+    offId = (await waitForStudy(analyst, off.json.id)).id
+    // A near-grazing parabolic approach (q = 1650 m against d ≈ 1700 m) with lobes synchronous with the
+    // orbit: the merged body spins at about √(2q/d) ≈ 1.4 × the Keplerian rate at contact, so the lobes pull apart.
+    const tension = await analyst.post('/api/studies', { lobeA: a.id, lobeB: b.id, direction: [1, 0, 0], orbit: { kind: 'parabolic', pericentre: 1650 }, overlapDepth: 40, sweepSteps: 0 })
+    tensionId = (await waitForStudy(analyst, tension.json.id)).id
     lobeIds = [a.id, b.id]
     masses = a.properties.mass + b.properties.mass
     browser = await openBrowser()
@@ -61,6 +70,17 @@ describe('in a real browser: the study result page', () => {
     expect(xMax).toBeGreaterThanOrEqual(Math.max(...densities))
     await expect.poll(() => page.getByTestId('spin-period').innerText()).toMatch(/no spin/)
     expect(await page.locator('main').innerText()).toContain('Priors: density of A uniform 400–1200 kg m⁻³')
+    // The inputs as run, each with its unit.
+    const inputs = page.getByTestId('study-inputs')
+    const unitOf = (id: string) => page.getByTestId(id).locator('xpath=following-sibling::td').innerText()
+    expect(await page.getByTestId('input-overlap-depth').innerText()).toBe('40 (= 0.04 km)')
+    expect(await unitOf('input-overlap-depth')).toBe('m')
+    expect(await page.getByTestId('input-density-a').innerText()).toBe('800')
+    expect(await unitOf('input-density-a')).toBe('kg m⁻³')
+    expect(await page.getByTestId('input-spread-density-b').innerText()).toBe('uniform 400 – 1200')
+    expect(await unitOf('input-spread-density-b')).toBe('kg m⁻³')
+    const inputsText = await inputs.innerText()
+    for (const label of ['Line of centres A → B', 'Orbit normal', 'Mutual orbit', 'Pericentre q', 'Spin of lobe A', 'Spin of lobe B', 'Orientation of B', 'Spread: approach cone half-angle', 'Spread: seed', 'Pathway screen']) expect(inputsText).toContain(label)
 
     // The separation period follows from the d shown beside it: d = first-contact separation − 40 m
     // settling, P = 2π√(d³/(GM)) (Kepler's third law, SCIENCE.md §5), in hours with "h" in the unit column.
@@ -92,6 +112,80 @@ describe('in a real browser: the study result page', () => {
     await page.goto(`${server.url}/studies`)
     expect(await page.getByTestId(`study-state-${missId}`).innerText()).toBe('no contact')
     expect(await page.getByTestId(`study-state-${studyId}`).innerText()).toBe('done')
+    await page.close()
+  })
+
+  it('cautions beside the spread when the nominal value lies outside it', async () => {
+    const page = await browser.context.newPage()
+    const res = (await (await page.request.get(`${server.url}/api/studies/${offId}`)).json()).result
+    // v ∝ √ρ at fixed geometry (vis-viva, SCIENCE.md §5): at ≥ 1500 kg m⁻³ every sample beats the 800 kg m⁻³ run.
+    expect(res.spread.speed.min).toBeGreaterThan(res.contact.speed)
+    await page.goto(`${server.url}/studies/${offId}`)
+    const note = await page.getByTestId('spread-speed-note').innerText()
+    expect(note).toMatch(/lies outside the spread's range \[[^\]]+\] m s⁻¹ \(below every sample\)/)
+    expect(note).toContain('not centred on the nominal value')
+    expect(await page.getByTestId('spread-escapeSpeed-note').innerText()).toContain('below every sample')
+    // The study whose priors span the nominal densities contains the nominal speed: no "outside" caution there.
+    await page.goto(`${server.url}/studies/${studyId}`)
+    const nominal = (await (await page.request.get(`${server.url}/api/studies/${studyId}`)).json()).result
+    const inside = nominal.spread.speed.min <= nominal.contact.speed && nominal.contact.speed <= nominal.spread.speed.max
+    expect(inside).toBe(true)
+    const notes = page.getByTestId('spread-speed-note')
+    if (await notes.count()) expect(await notes.innerText()).not.toContain('outside the spread')
+    await page.close()
+  })
+
+  it('explains a neck in tension: the stress in Pa, the cohesion it needs, the point-mass model', async () => {
+    const page = await browser.context.newPage()
+    const m = (await (await page.request.get(`${server.url}/api/studies/${tensionId}`)).json()).result.merged
+    expect(m.neckStress).toBeGreaterThan(0)
+    expect(m.spinPeriod).toBeLessThan(m.separationSpinPeriod)
+    await page.goto(`${server.url}/studies/${tensionId}`)
+    const text = await page.getByTestId('neck-tension').innerText()
+    expect(text).toMatch(/^Neck in tension/)
+    expect(text).toContain(`${Number(m.neckStress.toPrecision(5))} Pa`)
+    expect(text).toContain('the lobes would separate at this spin')
+    expect(text).toContain('point masses at their centroids')
+    // The head-on study does not spin: no tension caution there.
+    await page.goto(`${server.url}/studies/${studyId}`)
+    await expect.poll(() => page.getByTestId('spin-period').innerText()).toMatch(/no spin/)
+    expect(await page.getByTestId('neck-tension').count()).toBe(0)
+    await page.close()
+  })
+
+  it('does not offer a lobe against itself; follows the lobes with the spread\'s density range; shows units and where defaults come from', async () => {
+    const signIn = await browser.context.request.post(`${server.url}/api/session`, { data: { email: 'analyst@example.org', password: 'isthmus-demo' }, headers: { origin: server.url } })
+    expect(signIn.status()).toBe(200)
+    const page = await browser.context.newPage()
+    await page.goto(`${server.url}/studies/new?lobeA=${lobeIds[0]}&lobeB=${lobeIds[1]}`)
+    // Lobe A's choice is not offered as B (and B's not as A).
+    const disabled = (side: string) => page.locator(`#lobe-${side} option`).evaluateAll(os => (os as HTMLOptionElement[]).filter(o => o.disabled && /^\d+$/.test(o.value)).map(o => Number(o.value)))
+    await expect.poll(() => disabled('B')).toEqual([lobeIds[0]])
+    expect(await disabled('A')).toEqual([lobeIds[1]])
+    // Units in the labels.
+    await page.getByLabel('Kind').selectOption('bound')
+    for (const label of ['Semi-major axis a (km)', 'Eccentricity e (dimensionless', 'Settling depth after touching (m, not km', 'Neck sweep steps (count', 'Observed spin period (h, hours']) {
+      expect(await page.getByText(label).count(), label).toBe(1)
+    }
+    expect(await page.getByTestId('hint-semi-major-axis').innerText()).toMatch(/Default: 4 × the sum of the lobes' largest centroid-to-vertex distances \(4 × 1\.7 km\)/)
+    expect(await page.getByTestId('hint-overlap-depth').innerText()).toMatch(/Default: 2 % of the smaller lobe's volume-equivalent radius/)
+    // Both lobes at 800 kg m⁻³: the spread's density range is 0.6 × 800 = 480 to 1.4 × 800 = 1120, not a fixed 300–1200.
+    await page.getByLabel('Spread over uncertain inputs').check()
+    await expect.poll(() => page.locator('input[name=densityMin]').inputValue()).toBe('480')
+    expect(await page.locator('input[name=densityMax]').inputValue()).toBe('1120')
+    expect(await page.getByTestId('hint-density-range').innerText()).toContain('(800 and 800 kg m⁻³)')
+    expect(await page.getByTestId('density-range-warning').count()).toBe(0)
+    // A study density of 1500 for A moves the range with it (0.6 × 800 = 480 to 1.4 × 1500 = 2100).
+    await page.locator('input[name=densityA]').fill('1500')
+    await expect.poll(() => page.locator('input[name=densityMax]').inputValue()).toBe('2100')
+    expect(await page.locator('input[name=densityMin]').inputValue()).toBe('480')
+    // A range edited to exclude a nominal density is flagged.
+    await page.locator('input[name=densityMax]').fill('1000')
+    await expect.poll(() => page.getByTestId('density-range-warning').innerText()).toMatch(/density of A \(1500 kg m⁻³\) lies outside the spread's range 480–1000 kg m⁻³/)
+    // The same lobe on both sides (from a link): said at once, and the study cannot be run.
+    await page.goto(`${server.url}/studies/new?lobeA=${lobeIds[0]}&lobeB=${lobeIds[0]}`)
+    await expect.poll(() => page.getByTestId('same-lobe').count()).toBe(1)
+    expect(await page.getByRole('button', { name: 'Run the study' }).isDisabled()).toBe(true)
     await page.close()
   })
 

@@ -116,6 +116,26 @@ describe('spread centre against the nominal value', () => {
     expect(recordSpreadNote(4.07259, offCentre)).toBe('')
   })
 
+  it('notes a value outside the spread\'s range even when the median is within sampling noise of it', () => {
+    // A skewed spread: 12 samples, all above the value, median only 0.5 σ above it, which is within
+    // twice the standard error of a median at n = 12 (1.45 σ): "centred", yet the value is below every sample.
+    const skewed = { basis: 'study-spread', min: 10.1, median: 11, max: 20, mean: 12.5, std: 2, n: 12 }
+    const off = recordSpreadOffset(10, skewed)!
+    expect(off.centred).toBe(true)
+    expect(off.outside).toBe('below')
+    const note = recordSpreadNote(10, skewed, 'm')
+    expect(note).not.toContain('not centred')
+    expect(note).toContain('The nominal value 10 m lies outside the spread\'s range [10.1, 20] m (below every sample)')
+    // Above the range, and off-centre too: both sentences.
+    const both = recordSpreadNote(25, skewed, 'm')
+    expect(both).toContain('not centred on the nominal value')
+    expect(both).toContain('(above every sample)')
+    // Inside the range and centred: no note.
+    expect(recordSpreadOffset(11.2, skewed)).toBeNull()
+    // Identical samples equal to the value up to float round-off contain it (σ = 0).
+    expect(recordSpreadOffset(0.1 + 0.2, { basis: 'study-spread', min: 0.3, median: 0.3, max: 0.3, std: 0, n: 5 })).toBeNull()
+  })
+
   it('shows periods in hours, spread included, keeping the exact seconds', () => {
     const d = recordDisplay(42882.7, { basis: 'study-spread', median: 43200, std: 360, min: 36000, max: 50400, n: 40, seed: 7 }, 's')
     expect(d.unit).toBe('h')
