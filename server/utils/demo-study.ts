@@ -28,8 +28,9 @@ export async function seedDemoStudy(db: DB, members: Record<Role, number>) {
       seed: 2041,
       samples: 32,
       coneHalfAngleDeg: 15,
-      densityA: { kind: 'uniform', min: 300, max: 800 },
-      densityB: { kind: 'uniform', min: 300, max: 800 },
+      // centred on the lobes' 500 kg m⁻³, so that the spread brackets the nominal run
+      densityA: { kind: 'uniform', min: 300, max: 700 },
+      densityB: { kind: 'uniform', min: 300, max: 700 },
       scale: { kind: 'normal', mean: 1, std: 0.02 },
     },
   })

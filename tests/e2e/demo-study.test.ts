@@ -37,6 +37,13 @@ describe('demo contact study', () => {
     expect(r.neck.overlapDepth).toBe(600)
     expect(r.neck.area).toBeGreaterThan(0)
     expect(r.screen.hillRadius).toBeGreaterThan(0)
+    // its pericentre q = a(1 − e) = 15 km is already inside d: the screen says so, and the page
+    // does not call the path closed (definition of pericentre; common practice, no source)
+    expect(r.screen.currentPericentre).toBeCloseTo(15_000, 6)
+    expect(r.screen.currentPericentreReachesContact).toBe(true)
+    const page = (await viewer.get(`/studies/${seeded.id}`)).text
+    expect(page).toContain('The present orbit already reaches contact')
+    expect(page).not.toContain('this path to contact is closed')
     expect(r.spread.samples).toBe(32)
 
     const record = (await viewer.get('/api/objects?q=2041%20KD9')).json.items[0]
