@@ -293,6 +293,9 @@ describe('object records: attach, review, supersede, export, mail', () => {
     expect((await as.analyst.patch(`/api/lobes/${lobe.json.id}`, { density: 1200 })).status).toBe(200)
     const after = (await as.viewer.get(`/api/objects/${own.json.id}`)).json.attachments[0]
     expect(after.sourceChanges).toEqual([`the lobe (#${lobe.json.id} drifting): density 1000 → 1200 kg m⁻³`])
+    // the audit trail keeps the old value beside the new one
+    const audit = (await as.admin.get('/api/audit?limit=20')).json.items.find((e: { action: string, subjectId: string }) => e.action === 'lobe.updated' && e.subjectId === String(lobe.json.id))
+    expect(audit.detail).toMatchObject({ density: 1200, before: { density: 1000 } })
     // 2 km³ at 1000 kg m⁻³, as attached (box 1 × 2 × 1 km)
     expect(after.value).toBe(before.value)
     expect(after.value).toBeCloseTo(2e9 * 1000, -3)

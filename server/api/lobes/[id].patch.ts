@@ -29,7 +29,9 @@ export default defineEventHandler(async (event) => {
       properties: props as unknown as Record<string, unknown>,
       surface: change.density !== undefined || change.spinPeriodHours !== undefined || change.spinAxis !== undefined ? null : lobe.surface,
     }).where(eq(schema.lobes.id, id)).returning()
-    await audit(event, { actorId: actor.id, action: 'lobe.updated', subjectType: 'lobe', subjectId: id, detail: change }, tx)
+    // the audit keeps the values before the change beside the new ones
+    const before = Object.fromEntries(Object.keys(change).map(k => [k, lobe[k as keyof typeof lobe] ?? null]))
+    await audit(event, { actorId: actor.id, action: 'lobe.updated', subjectType: 'lobe', subjectId: id, detail: { ...change, before } }, tx)
     return row!
   })
   let job = (await latestJobs(db, [id])).get(id)
