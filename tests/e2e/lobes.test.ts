@@ -102,6 +102,13 @@ describe('lobe uploads through the API', () => {
     const badDensity = await upload(as.analyst, writeObj(boxMesh(1, 1, 1)), 'box.obj', { density: '0' })
     expect(badDensity.status).toBe(422)
     expect(badDensity.json.data.issues[0].path).toBe('density')
+    // The message names the field as the form does; the path stays the field name.
+    expect(badDensity.json.message).toBe('Invalid upload fields: Bulk density: must be at least 1 kg m⁻³')
+    const badSpin = await upload(as.analyst, writeObj(boxMesh(1, 1, 1)), 'box.obj', { density: '500', spinPeriodHours: '-3' })
+    expect(badSpin.status).toBe(422)
+    expect(badSpin.json.data.issues.map((i: { path: string }) => i.path)).toEqual(['spinPeriodHours'])
+    expect(badSpin.json.message).toContain('Spin period: must be positive (h)')
+    expect(badSpin.json.message).not.toContain('spinPeriodHours')
     expect(readdirSync(join(server.dataDir, 'uploads', 'tmp'))).toEqual([])
     expect((await as.viewer.get('/api/health')).status).toBe(200)
   })

@@ -1,6 +1,6 @@
 import { rm } from 'node:fs/promises'
 import formidable, { errors as formidableErrors } from 'formidable'
-import { lobeUploadFieldsSchema } from '#shared/types/lobes'
+import { labelIssue, lobeUploadFieldsSchema } from '#shared/types/lobes'
 import { zodIssues } from '../../utils/validate'
 
 /**
@@ -49,12 +49,13 @@ export default defineEventHandler(async (event) => {
     tmpPath = file.filepath
     const one = (k: string) => fields[k]?.[0]
     const parsed = lobeUploadFieldsSchema.safeParse({
-      units: one('units') || undefined, density: one('density'), name: one('name') || undefined,
+      units: one('units') || undefined, density: one('density') || undefined, name: one('name') || undefined,
       referenceRadius: one('referenceRadius') || undefined, spinPeriodHours: one('spinPeriodHours') || undefined,
     })
     if (!parsed.success) {
       const issues = zodIssues(parsed.error)
-      throw unprocessable(`Invalid upload fields: ${issues.map(i => `${i.path}: ${i.message}`).join('; ')}`, issues)
+      // The message names fields as the form does ("Bulk density: …"); issues[].path keeps the field names.
+      throw unprocessable(`Invalid upload fields: ${issues.map(labelIssue).join('; ')}`, issues)
     }
     const input = parsed.data
     if (file.size === 0) throw unprocessable('The file is empty', [{ path: 'file', message: 'empty file' }], 'empty-file')
