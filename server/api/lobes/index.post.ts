@@ -8,6 +8,8 @@ import { zodIssues } from '../../utils/validate'
  * `referenceRadius` m and `spinPeriodHours`). The role is checked before the body is read; the file
  * is stored by sha256 (formidable writes inside UPLOADS_DIR, then one rename), analysed on a worker
  * thread, and the lobe's properties answered with 201. Bad meshes answer 422 with what and where.
+ * The answer's `warnings` include 'size-check' (a size no target body has: wrong units?) and
+ * 'same-file' (the same file as earlier lobes, named) besides the mesh's own.
  */
 export default defineEventHandler(async (event) => {
   const actor = await requireRole(event, 'analyst')
