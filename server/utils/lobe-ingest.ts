@@ -28,6 +28,8 @@ export interface IngestInput {
   spinPeriodHours?: number
   /** Warnings the caller adds to the mesh report's own (e.g. what a derived lobe leaves out). */
   extraWarnings?: { code: string, message: string }[]
+  /** Where a derived lobe came from (e.g. `{ kind: 'cut', lobeId, ... }`), kept as `report.origin`. */
+  origin?: Record<string, unknown>
 }
 
 /**
@@ -87,6 +89,7 @@ export async function ingestLobe(input: IngestInput) {
     report: {
       ...analysed.report, sourceFaceCount: analysed.sourceFaceCount, triangulatedPolygons: analysed.triangulatedPolygons, timingsMs: analysed.timings,
       ...(earlier.length ? { sameFile: earlier } : {}),
+      ...(input.origin ? { origin: input.origin } : {}),
     },
     properties: analysed.properties,
     algorithmVersion: ALGORITHM_VERSION,
