@@ -53,7 +53,7 @@ export function momentDegeneracy(moments: readonly number[] | null | undefined):
   const bc = Math.abs(C - B) <= tol
   const rel = 'to a relative 10⁻⁹ (degenerate moments)'
   if (ab && bc) {
-    return { defined: [false, false, false], equal: 'ABC', note: `All three principal moments agree ${rel}: no principal axes are defined. Any three perpendicular directions are principal; the axes listed are an arbitrary choice.` }
+    return { defined: [false, false, false], equal: 'ABC', note: `All three principal moments agree ${rel}: no principal axes are defined. Any three perpendicular directions are principal; the computed ones (shown on hover) are an arbitrary choice.` }
   }
   if (ab) {
     return { defined: [false, false, true], equal: 'AB', note: `Moments A and B agree ${rel}: the A and B axes are not defined. Any two perpendicular directions in the plane normal to the C axis are principal; only the C axis is defined.` }

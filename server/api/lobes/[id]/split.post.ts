@@ -54,7 +54,11 @@ export default defineEventHandler(async (event) => {
   return { plane: split.plane, neckArea: split.neckArea, lobes: made.map(m => lobeView(m.lobe, m.job, { id: actor.id, name: actor.name })) }
 })
 
-const vec = (v: readonly number[]) => `(${v.map(x => Number(x.toPrecision(6))).join(', ')})`
+/** A vector for people, components below 1e-12 of its largest shown as 0 (round-off, as on the pages). */
+function vec(v: readonly number[]) {
+  const scale = Math.max(...v.map(Math.abs))
+  return `(${v.map(x => (Math.abs(x) < 1e-12 * scale ? 0 : Number(x.toPrecision(6)))).join(', ')})`
+}
 
 /** The warning each part carries: where it was cut from, and that its cut face is synthetic. */
 function cutFaceWarning(parent: { id: number, name: string }, split: { plane: { point: number[], normal: number[] }, neckArea: number }, side: string) {
