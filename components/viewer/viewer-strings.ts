@@ -24,6 +24,9 @@ export const VIEWER_STRINGS = {
   axisOfSmallest: 'axis of the smallest moment',
   axisOfMiddle: 'axis of the middle moment',
   axisOfLargest: 'axis of the largest moment',
+  viewAxisUndefined: (title: string, equal: 'AB' | 'BC' | 'ABC') => equal === 'ABC'
+    ? `${title}: not defined, all three principal moments agree (degenerate moments), so this direction is an arbitrary choice`
+    : `${title}: not defined, moments ${equal[0]} and ${equal[1]} agree (degenerate moments), so this direction is an arbitrary one in their plane`,
   orbitNormalView: 'Orbit normal',
   sideView: 'Side',
   sideViewTitle: 'Look across the line of centres',

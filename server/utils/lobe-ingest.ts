@@ -1,7 +1,8 @@
 import { rename, rm } from 'node:fs/promises'
 import { join } from 'node:path'
-import { eq } from 'drizzle-orm'
+import { asc, eq } from 'drizzle-orm'
 import { ALGORITHM_VERSION } from '../../shared/utils/version'
+import { sameFileWarning, sizeCheckWarning } from '../../shared/utils/lobe-checks'
 
 interface AnalyseResult {
   format: 'obj' | 'ply'
@@ -27,11 +28,15 @@ export interface IngestInput {
   spinPeriodHours?: number
   /** Warnings the caller adds to the mesh report's own (e.g. what a derived lobe leaves out). */
   extraWarnings?: { code: string, message: string }[]
+  /** Where a derived lobe came from (e.g. `{ kind: 'cut', lobeId, ... }`), kept as `report.origin`. */
+  origin?: Record<string, unknown>
 }
 
 /**
  * Analyses a mesh file on a worker thread, stores it by content hash (one rename; a repeated upload
- * keeps the stored copy), records the lobe and queues its surface-field job.
+ * keeps the stored copy), records the lobe and queues its surface-field job. Adds to the mesh's
+ * own warnings a 'size-check' when the body's size is implausible for the units, and a 'same-file'
+ * naming the lobes made earlier from the same file (`report.sameFile` lists them).
  * @throws 422 (GeometryError mapped by toHttpError) when the mesh cannot be used.
  */
 export async function ingestLobe(input: IngestInput) {
@@ -61,6 +66,12 @@ export async function ingestLobe(input: IngestInput) {
     await rename(input.filePath, join(paths.root, storedPath))
     await db.insert(schema.meshFiles).values({ sha256: input.sha256, format: ext, byteSize: input.size, storedPath }).onConflictDoNothing()
   }
+  const earlier = await db.select({ id: schema.lobes.id, name: schema.lobes.name, units: schema.lobes.units }).from(schema.lobes)
+    .where(eq(schema.lobes.sha256, input.sha256)).orderBy(asc(schema.lobes.id))
+  const checks = [
+    sizeCheckWarning(Number(analysed.properties.equivalentRadius), input.units),
+    sameFileWarning(earlier, input.units),
+  ].filter(w => w !== null)
   const fallbackName = (input.originalName ?? 'lobe').replace(/\.(obj|ply)$/i, '').slice(0, 120) || 'lobe'
   const [lobe] = await db.insert(schema.lobes).values({
     name: input.name || fallbackName,
@@ -74,8 +85,12 @@ export async function ingestLobe(input: IngestInput) {
     spinPeriodHours: input.spinPeriodHours ?? null,
     vertexCount: analysed.report.vertexCount,
     faceCount: analysed.report.faceCount,
-    warnings: [...analysed.report.warnings, ...(input.extraWarnings ?? [])],
-    report: { ...analysed.report, sourceFaceCount: analysed.sourceFaceCount, triangulatedPolygons: analysed.triangulatedPolygons, timingsMs: analysed.timings },
+    warnings: [...analysed.report.warnings, ...checks, ...(input.extraWarnings ?? [])],
+    report: {
+      ...analysed.report, sourceFaceCount: analysed.sourceFaceCount, triangulatedPolygons: analysed.triangulatedPolygons, timingsMs: analysed.timings,
+      ...(earlier.length ? { sameFile: earlier } : {}),
+      ...(input.origin ? { origin: input.origin } : {}),
+    },
     properties: analysed.properties,
     algorithmVersion: ALGORITHM_VERSION,
   }).returning()

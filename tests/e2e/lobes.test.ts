@@ -1,7 +1,7 @@
 import { existsSync, readdirSync } from 'node:fs'
 import { join } from 'node:path'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
-import { boxMesh, icosphere, writeObj, writePly } from '../../shared/geometry'
+import { boxMesh, icosphere, mergeMeshes, writeObj, writePly } from '../../shared/geometry'
 import { Agent } from './support/http'
 import { uploadLobe } from './support/lobes'
 import { startServer, type RunningServer } from './support/server'
@@ -102,6 +102,13 @@ describe('lobe uploads through the API', () => {
     const badDensity = await upload(as.analyst, writeObj(boxMesh(1, 1, 1)), 'box.obj', { density: '0' })
     expect(badDensity.status).toBe(422)
     expect(badDensity.json.data.issues[0].path).toBe('density')
+    // The message names the field as the form does; the path stays the field name.
+    expect(badDensity.json.message).toBe('Invalid upload fields: Bulk density: must be at least 1 kg m⁻³')
+    const badSpin = await upload(as.analyst, writeObj(boxMesh(1, 1, 1)), 'box.obj', { density: '500', spinPeriodHours: '-3' })
+    expect(badSpin.status).toBe(422)
+    expect(badSpin.json.data.issues.map((i: { path: string }) => i.path)).toEqual(['spinPeriodHours'])
+    expect(badSpin.json.message).toContain('Spin period: must be positive (h)')
+    expect(badSpin.json.message).not.toContain('spinPeriodHours')
     expect(readdirSync(join(server.dataDir, 'uploads', 'tmp'))).toEqual([])
     expect((await as.viewer.get('/api/health')).status).toBe(200)
   })
@@ -149,6 +156,53 @@ describe('lobe uploads through the API', () => {
     const calm = await waitForSurface(as.viewer, res.json.id, 120_000)
     expect(calm.properties.liftOff).toBeNull()
     expect(calm.surfaceCautions).toEqual([])
+  })
+
+  it('flags a mesh of two separate bodies: the warning, the count in the report and in the list item', async () => {
+    // Two unit cubes 3 km apart: one file, two closed bodies.
+    const two = mergeMeshes([boxMesh(1, 1, 1), boxMesh(1, 1, 1, [3, 0, 0])])
+    const res = await upload(as.analyst, writeObj(two), 'pair.obj', { density: '1000', units: 'km', name: 'pair of cubes' })
+    expect(res.status, res.text).toBe(201)
+    expect(res.json.warnings.map((w: { code: string }) => w.code)).toContain('multiple-components')
+    expect(res.json.report.components).toBe(2)
+    // Both cubes as one rigid body: the centroid between them (textbook: mass-weighted mean).
+    expect(res.json.properties.centroid[0]).toBeCloseTo(1500, 6)
+    const list = await as.viewer.get('/api/lobes?q=pair%20of%20cubes')
+    const item = list.json.items.find((i: { id: number }) => i.id === res.json.id)
+    expect(item.properties.components).toHaveLength(2)
+    expect(item.warnings.map((w: { code: string }) => w.code)).toContain('multiple-components')
+  })
+
+  it('warns when the size points at the wrong units (km read for a file in metres), and not for the same file in metres', async () => {
+    // A 600 m sphere in a metre file, read as km: 1 200 km across (×1000, the units' definition).
+    const bytes = writePly(icosphere(4, 600), 'binary_little_endian', { double: true })
+    const km = await upload(as.analyst, bytes, 'big-by-mistake.ply', { density: '500', units: 'km' })
+    expect(km.status, km.text).toBe(201)
+    const size = km.json.warnings.find((w: { code: string }) => w.code === 'size-check')
+    expect(size.message).toContain('the body is 1 200 km across')
+    expect(size.message).toContain('were the coordinates in metres?')
+    const m = await upload(as.analyst, bytes, 'big-by-mistake.ply', { density: '500', units: 'm' })
+    expect(m.status, m.text).toBe(201)
+    const codes = m.json.warnings.map((w: { code: string }) => w.code)
+    expect(codes).not.toContain('size-check')
+    // The same file read in the other units is named: one of the two readings is wrong.
+    expect(m.json.warnings.find((w: { code: string }) => w.code === 'same-file').message).toContain(`read in kilometres as lobe #${km.json.id} 'big-by-mistake'`)
+  })
+
+  it('keeps a second upload of the same file as a lobe of its own, and warns naming the first', async () => {
+    const bytes = writeObj(boxMesh(1.5, 1, 0.8))
+    const first = await upload(as.analyst, bytes, 'twice.obj', { density: '800', units: 'km', name: 'first reading' })
+    expect(first.status, first.text).toBe(201)
+    expect(first.json.warnings.map((w: { code: string }) => w.code)).not.toContain('same-file')
+    const second = await upload(as.analyst, bytes, 'twice.obj', { density: '2000', units: 'km' })
+    expect(second.status, second.text).toBe(201)
+    expect(second.json.id).not.toBe(first.json.id)
+    expect(second.json.sha256).toBe(first.json.sha256)
+    const w = second.json.warnings.find((x: { code: string }) => x.code === 'same-file')
+    expect(w.message).toContain(`the same file as lobe #${first.json.id} 'first reading'`)
+    expect(second.json.report.sameFile).toEqual([{ id: first.json.id, name: 'first reading', units: 'km' }])
+    // The lobe page's source: the stored lobe carries it too.
+    expect((await as.viewer.get(`/api/lobes/${second.json.id}`)).json.warnings).toContainEqual(w)
   })
 
   it('answers bad record addresses with the not-found page (404, our wording, a way back)', async () => {

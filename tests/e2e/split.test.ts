@@ -63,6 +63,19 @@ describe('split a whole-body lobe at a plane (POST /api/lobes/:id/split)', () =>
     // The section area of the union is smallest at x_i (the circle where the spheres meet).
     expect(Math.abs(res.json.plane.point[0] - XI * 1000)).toBeLessThan(0.02 * 1000)
     const [v1, v2] = await volumes(res.json.lobes)
+    // Each part names its parent and says that its cut face is synthetic.
+    for (const [i, part] of (res.json.lobes as any[]).entries()) {
+      expect(part.report.origin).toMatchObject({ kind: 'cut', lobeId, lobeName: 'two-spheres', side: i === 0 ? '+normal' : '−normal' })
+      expect(part.report.origin.plane.point[0]).toBe(res.json.plane.point[0])
+      const cut = part.warnings.find((w: { code: string }) => w.code === 'cut-face')
+      expect(cut.message).toContain(`Cut from lobe #${lobeId} 'two-spheres'`)
+      expect(cut.message).toMatch(/synthetic/)
+      // The plane's round-off (e.g. a y of 1e-14 m on a 1 km cut) reads as 0, the normal as the x axis.
+      expect(cut.message).not.toMatch(/e-1\d/)
+      // The neck area in the message is the section the split reports (m²), rounded to 4 digits.
+      expect(cut.message).toContain(`(${Number(Math.abs(res.json.neckArea).toPrecision(4))} m²)`)
+      expect((await analyst.agent.get(`/api/lobes/${part.id}`)).json.report.origin.lobeId).toBe(lobeId)
+    }
     const small = Math.min(v1!, v2!), large = Math.max(v1!, v2!)
     // A plane shift δ changes the parts by about the neck area π(R1² − x_i²) δ: allow the 20 m above.
     const slack = Math.PI * (R1 * R1 - XI * XI) * 0.02 * KM3

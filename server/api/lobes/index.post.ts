@@ -1,6 +1,6 @@
 import { rm } from 'node:fs/promises'
 import formidable, { errors as formidableErrors } from 'formidable'
-import { lobeUploadFieldsSchema } from '#shared/types/lobes'
+import { labelIssue, lobeUploadFieldsSchema } from '#shared/types/lobes'
 import { zodIssues } from '../../utils/validate'
 
 /**
@@ -8,6 +8,8 @@ import { zodIssues } from '../../utils/validate'
  * `referenceRadius` m and `spinPeriodHours`). The role is checked before the body is read; the file
  * is stored by sha256 (formidable writes inside UPLOADS_DIR, then one rename), analysed on a worker
  * thread, and the lobe's properties answered with 201. Bad meshes answer 422 with what and where.
+ * The answer's `warnings` include 'size-check' (a size no target body has: wrong units?) and
+ * 'same-file' (the same file as earlier lobes, named) besides the mesh's own.
  */
 export default defineEventHandler(async (event) => {
   const actor = await requireRole(event, 'analyst')
@@ -49,12 +51,13 @@ export default defineEventHandler(async (event) => {
     tmpPath = file.filepath
     const one = (k: string) => fields[k]?.[0]
     const parsed = lobeUploadFieldsSchema.safeParse({
-      units: one('units') || undefined, density: one('density'), name: one('name') || undefined,
+      units: one('units') || undefined, density: one('density') || undefined, name: one('name') || undefined,
       referenceRadius: one('referenceRadius') || undefined, spinPeriodHours: one('spinPeriodHours') || undefined,
     })
     if (!parsed.success) {
       const issues = zodIssues(parsed.error)
-      throw unprocessable(`Invalid upload fields: ${issues.map(i => `${i.path}: ${i.message}`).join('; ')}`, issues)
+      // The message names fields as the form does ("Bulk density: …"); issues[].path keeps the field names.
+      throw unprocessable(`Invalid upload fields: ${issues.map(labelIssue).join('; ')}`, issues)
     }
     const input = parsed.data
     if (file.size === 0) throw unprocessable('The file is empty', [{ path: 'file', message: 'empty file' }], 'empty-file')

@@ -12,7 +12,11 @@ const body = z.object({
   plane: z.object({ point: vec3, normal: vec3.refine(v => Math.hypot(...v) > 0, 'normal must not be zero') }).optional(),
 })
 
-/** Cut a whole-body mesh at its neck into two closed lobes of their own → 201 `{ plane, lobes: [A, B] }`. */
+/**
+ * Cut a whole-body mesh at its neck into two closed lobes of their own → 201 `{ plane, neckArea, lobes: [A, B] }`.
+ * Each part names its parent in `report.origin` (`{ kind: 'cut', lobeId, lobeName, side, plane, neckArea }`)
+ * and carries a 'cut-face' warning: its flat cut face is synthetic.
+ */
 export default defineEventHandler(async (event) => {
   const actor = await requireRole(event, 'analyst')
   const { id } = paramsAs(event, idParamSchema)
@@ -22,7 +26,7 @@ export default defineEventHandler(async (event) => {
   if (!lobe) throw notFound('Lobe')
   const { derived } = uploadPaths()
   const outPaths: [string, string] = [join(derived, `split-${lobe.sha256}-${Date.now()}-a.bin`), join(derived, `split-${lobe.sha256}-${Date.now()}-b.bin`)]
-  let split: { plane: unknown, neckArea: number, positiveVolume: number, negativeVolume: number }
+  let split: { plane: { point: [number, number, number], normal: [number, number, number] }, neckArea: number, positiveVolume: number, negativeVolume: number }
   try {
     split = await useWorkerPool().run('split', {
       meshPath: derivedMeshPaths(lobe.sha256, lobe.units).analysis,
@@ -36,9 +40,30 @@ export default defineEventHandler(async (event) => {
   }
   const made = []
   for (const [i, path] of outPaths.entries()) {
-    made.push(await lobeFromAnalysisMesh(path, { ownerId: actor.id, name: `${lobe.name} — part ${i === 0 ? 'A' : 'B'}`, fileName: `${lobe.name}-part-${i === 0 ? 'a' : 'b'}.ply`, density: lobe.density }))
+    const side = i === 0 ? '+normal' : '−normal'
+    // The parent is known only here: each part keeps it in its report, and says in a warning that
+    // its flat cut face was made by the cut, not uploaded.
+    const origin = { kind: 'cut', lobeId: lobe.id, lobeName: lobe.name, side, plane: split.plane, neckArea: split.neckArea }
+    made.push(await lobeFromAnalysisMesh(path, {
+      ownerId: actor.id, name: `${lobe.name} — part ${i === 0 ? 'A' : 'B'}`, fileName: `${lobe.name}-part-${i === 0 ? 'a' : 'b'}.ply`, density: lobe.density,
+      extraWarnings: [cutFaceWarning(lobe, split, side)], origin,
+    }))
   }
   await audit(event, { actorId: actor.id, action: 'lobe.split', subjectType: 'lobe', subjectId: id, detail: { into: made.map(m => m.lobe.id) } })
   setResponseStatus(event, 201)
   return { plane: split.plane, neckArea: split.neckArea, lobes: made.map(m => lobeView(m.lobe, m.job, { id: actor.id, name: actor.name })) }
 })
+
+/** A vector for people, components below 1e-12 of its largest shown as 0 (round-off, as on the pages). */
+function vec(v: readonly number[]) {
+  const scale = Math.max(...v.map(Math.abs))
+  return `(${v.map(x => (Math.abs(x) < 1e-12 * scale ? 0 : Number(x.toPrecision(6)))).join(', ')})`
+}
+
+/** The warning each part carries: where it was cut from, and that its cut face is synthetic. */
+function cutFaceWarning(parent: { id: number, name: string }, split: { plane: { point: number[], normal: number[] }, neckArea: number }, side: string) {
+  return {
+    code: 'cut-face',
+    message: `Cut from lobe #${parent.id} '${parent.name}' (the ${side} side of the plane through ${vec(split.plane.point)} m with normal ${vec(split.plane.normal)}, in that lobe's file axes). The flat face closing this part across the cut (${Number(Math.abs(split.neckArea).toPrecision(4))} m²) was made by the cut: it is synthetic, not part of the uploaded surface. Volume, mass and moments are those of the solid up to the plane; surface values on that face describe the cut, not the body's surface.`,
+  }
+}
