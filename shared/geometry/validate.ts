@@ -239,7 +239,7 @@ export function validateMesh(mesh: TriMesh, opts: ValidateOptions = {}): Validat
     warnings.push({ code: 'inverted-orientation', message: `${invertedComponents} of ${nComp} components were inside-out (negative volume) and were reversed` })
   }
   const componentFaceCounts = compSizes.slice().sort((a, b) => b - a)
-  if (nComp > 1) warnings.push({ code: 'multiple-components', message: `the mesh has ${nComp} separate components (faces per component: ${componentFaceCounts.slice(0, 10).join(', ')}${nComp > 10 ? ', ...' : ''}); each is treated as a separate solid` })
+  if (nComp > 1) warnings.push({ code: 'multiple-components', message: `the mesh has ${nComp} separate components (faces per component: ${componentFaceCounts.slice(0, 10).join(', ')}${nComp > 10 ? ', ...' : ''}); each is oriented as its own closed surface, and the mass properties are those of all of them together (one rigid body); values per component are listed` })
 
   // 10. self-intersections (three-mesh-bvh), where affordable
   const maxSI = opts.selfIntersectionMaxFaces ?? 300_000
