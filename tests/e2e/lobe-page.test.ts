@@ -63,6 +63,8 @@ describe('the lobe pages in a real browser: cautions, round-off, errors where th
     const bodies = page.getByTestId('caution-multiple-components')
     await expect.poll(() => bodies.innerText()).toContain('This mesh holds 2 separate bodies.')
     expect(await bodies.innerText()).toMatch(/treat them as one rigid body.*splitting them into separate lobes/s)
+    // and each body's own volume, mass and centre of mass
+    expect(await page.getByTestId('component-values').innerText()).toMatch(/body 1: volume .* m³, mass .* kg, centre of mass \(.*\) m\s+body 2: /)
     const size = await page.getByTestId('caution-size-check').innerText()
     expect(size).toContain('Check the coordinate units.')
     expect(size).toContain('were the coordinates in metres?')
