@@ -8,11 +8,11 @@ import { decodeAnalysisMesh } from '../../shared/utils/mesh-binary'
  * Turns a derived analysis mesh (metres) into a stored lobe of its own (binary PLY file).
  * `origin` (where the mesh came from) is kept in the lobe's report.
  */
-export async function lobeFromAnalysisMesh(analysisPath: string, opts: { ownerId: number, name: string, fileName: string, density: number, extraWarnings?: { code: string, message: string }[], origin?: Record<string, unknown> }) {
+export async function lobeFromAnalysisMesh(analysisPath: string, opts: { ownerId: number, name: string, fileName: string, density: number, spinPeriodHours?: number, spinAxis?: [number, number, number], extraWarnings?: { code: string, message: string }[], origin?: Record<string, unknown> }) {
   const mesh = decodeAnalysisMesh(new Uint8Array(await readFile(analysisPath)))
   const bytes = writePly(mesh, 'binary_little_endian', { double: true })
   const sha256 = createHash('sha256').update(bytes).digest('hex')
   const filePath = join(uploadPaths().tmp, `derived-${sha256}-${process.hrtime.bigint()}`)
   await writeFile(filePath, bytes)
-  return ingestLobe({ filePath, size: bytes.length, sha256, originalName: opts.fileName, ownerId: opts.ownerId, name: opts.name, units: 'm', density: opts.density, extraWarnings: opts.extraWarnings, origin: opts.origin })
+  return ingestLobe({ filePath, size: bytes.length, sha256, originalName: opts.fileName, ownerId: opts.ownerId, name: opts.name, units: 'm', density: opts.density, spinPeriodHours: opts.spinPeriodHours, spinAxis: opts.spinAxis, extraWarnings: opts.extraWarnings, origin: opts.origin })
 }

@@ -26,6 +26,8 @@ export interface IngestInput {
   density: number
   referenceRadius?: number
   spinPeriodHours?: number
+  /** Unit spin axis, file frame (default: the axis of the largest moment). */
+  spinAxis?: [number, number, number]
   /** Warnings the caller adds to the mesh report's own (e.g. what a derived lobe leaves out). */
   extraWarnings?: { code: string, message: string }[]
   /** Where a derived lobe came from (e.g. `{ kind: 'cut', lobeId, ... }`), kept as `report.origin`. */
@@ -83,6 +85,7 @@ export async function ingestLobe(input: IngestInput) {
     density: input.density,
     referenceRadius: input.referenceRadius ?? null,
     spinPeriodHours: input.spinPeriodHours ?? null,
+    spinAxis: input.spinAxis ?? null,
     vertexCount: analysed.report.vertexCount,
     faceCount: analysed.report.faceCount,
     warnings: [...analysed.report.warnings, ...checks, ...(input.extraWarnings ?? [])],

@@ -54,4 +54,23 @@ describe('demo contact study', () => {
     const after = await demoStudies(viewer)
     expect(after.map((s: { id: number, status: string }) => [s.id, s.status])).toEqual([[seeded.id, 'done']])
   })
+
+  it('saves the merged body as a lobe that keeps the inherited spin and says where it came from', async () => {
+    const analyst = new Agent(server.url)
+    await analyst.signIn('analyst@example.org', 'isthmus-demo')
+    const [seeded] = await demoStudies(analyst)
+    const merged = (await analyst.get(`/api/studies/${seeded.id}`)).json.result.merged
+    expect(merged.spinPeriod).toBeGreaterThan(0)
+    const saved = await analyst.post(`/api/studies/${seeded.id}/merged-lobe`, {})
+    expect(saved.status, saved.text).toBe(201)
+    const lobe = (await analyst.get(`/api/lobes/${saved.json.id}`)).json
+    expect(lobe.spinPeriodHours).toBeCloseTo(merged.spinPeriod / 3600, 12)
+    expect(lobe.spinAxis).toEqual(merged.spinAxis)
+    expect(lobe.properties.density).toBe(merged.density)
+    const page = (await analyst.get(`/lobes/${saved.json.id}`)).text
+    expect(page).toContain(`The merged body of <a href="/studies/${seeded.id}"`)
+    expect(page).toContain(`the bulk density of study #${seeded.id}&#39;s merged body, not a measurement`)
+    expect(page).not.toContain('your choice, not a measurement')
+    expect(page).not.toContain('nothing was repaired')
+  })
 })
