@@ -298,7 +298,7 @@ export function recordCitation(rec: RecordExport, opts: { link: string, exported
       out.push(`    ${which}mesh ${str(m.sourceFileName)} sha256 ${str(m.sha256)}, density ${density !== undefined ? recordNumberText(density) : '?'} kg m⁻³`)
     }
     const study = p.study as Record<string, unknown> | undefined
-    if (study) out.push(`    study #${str(study.id)}${study.title ? ` "${str(study.title)}"` : ''}, inputs ${JSON.stringify(study.input)}`)
+    if (study) out.push(`    study #${str(study.id)}${study.title ? ` "${str(study.title)}"` : ''}, inputs (SI: m, m s⁻¹, kg m⁻³, rad s⁻¹, s, unless the name says otherwise: …Deg degrees, …Au au, …Hours hours) ${JSON.stringify(study.input)}`)
     else if (p.lobe) {
       const spin = recordLobeSpinPeriodS(p)
       out.push(`    lobe spin: ${spin === null ? 'not rotating' : `period ${recordNumberText(spin)} s (${recordNumberText(spin / 3600)} h)`}`)
