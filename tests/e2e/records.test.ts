@@ -296,6 +296,8 @@ describe('object records: attach, review, supersede, export, mail', () => {
     // the audit trail keeps the old value beside the new one
     const audit = (await as.admin.get('/api/audit?limit=20')).json.items.find((e: { action: string, subjectId: string }) => e.action === 'lobe.updated' && e.subjectId === String(lobe.json.id))
     expect(audit.detail).toMatchObject({ density: 1200, before: { density: 1000 } })
+    // and the audit page links the lobe
+    expect((await as.admin.get('/admin/audit')).text).toContain(`<a href="/lobes/${lobe.json.id}"`)
     // 2 km³ at 1000 kg m⁻³, as attached (box 1 × 2 × 1 km)
     expect(after.value).toBe(before.value)
     expect(after.value).toBeCloseTo(2e9 * 1000, -3)
