@@ -68,6 +68,9 @@ describe('in a real browser: the study result page', () => {
     const [xMin, xMax] = await charts.nth(1).evaluate((c: HTMLCanvasElement) => [Number(c.dataset.xMin), Number(c.dataset.xMax)])
     expect(xMin).toBeLessThanOrEqual(Math.min(...densities))
     expect(xMax).toBeGreaterThanOrEqual(Math.max(...densities))
+    // the nominal run and the chosen settling depth are marked beside the samples and the sweep
+    expect(await charts.nth(1).evaluate((c: HTMLCanvasElement) => c.dataset.series)).toBe('Contact speed vs density of A|Nominal run')
+    expect(await charts.nth(0).evaluate((c: HTMLCanvasElement) => c.dataset.series)).toBe('Neck equivalent radius|Chosen settling depth')
     await expect.poll(() => page.getByTestId('spin-period').innerText()).toMatch(/no spin/)
     expect(await page.locator('main').innerText()).toContain('Priors: density of A uniform 400–1200 kg m⁻³')
     // The inputs as run, each with its unit.
