@@ -16,7 +16,7 @@ const DEMO_RECORDS = [
     designation: 'P/2043 TW118',
     name: 'Marrow',
     population: 'jupiter-family-comet' as const,
-    notes: 'Invented demo record: a comet nucleus with a small lobe on a broad one (its primary is the demo lobe "Marrow pair — primary").',
+    notes: 'Invented demo record: a comet nucleus with a small lobe on a broad one (the demo lobes "Marrow pair — primary" and "— secondary").',
     orbit: { a: 3.46, e: 0.62, i: 7.8 },
     tags: ['demo', 'unequal-lobes'],
   },
