@@ -45,13 +45,20 @@ export function liftOffShare(slopeDeg: ArrayLike<number>, areas: ArrayLike<numbe
 
 /**
  * Cautions about the surface fields, for people (lobe page) and programs (lobe view): loose
- * material lifting off where the spin beats gravity.
+ * material lifting off where the spin beats gravity, or overhangs (slopes above 90° without spin,
+ * e.g. under a concave neck).
  */
 export function surfaceCautions(surface: SurfaceSummary | null, density: number): { code: string, message: string }[] {
-  if (!surface?.spin || !(surface.slopeDeg.max > LIFT_OFF_SLOPE_DEG)) return []
+  if (!surface || !(surface.slopeDeg.max > LIFT_OFF_SLOPE_DEG)) return []
   const share = surface.liftOff
     ? `${share100(surface.liftOff.areaFraction)} of the surface (by area, ${surface.liftOff.points} of ${surface.evaluation.points} evaluation points)`
     : 'part of the surface'
+  if (!surface.spin) {
+    return [{
+      code: 'surface-overhang',
+      message: `On ${share} the slope exceeds 90° (up to ${surface.slopeDeg.max.toFixed(1)}°) with no spin: gravity there points away from the surface, as under an overhang (typically in a concave neck). Loose material cannot rest there; these slopes follow the mesh's local shape and resolution, and they are estimates from a homogeneous interior.`,
+    }]
+  }
   return [{
     code: 'surface-lift-off',
     message: `On ${share} the slope exceeds 90° (up to ${surface.slopeDeg.max.toFixed(1)}°): the net of gravity and the centrifugal acceleration of the ${surface.spin.periodHours} h spin points away from the surface, so loose material there would lift off. At ${density} kg m⁻³ the lobe spins faster than its surface can hold loose material; a body really spinning this fast needs cohesion or a higher density there, or it sheds material.`,

@@ -1,7 +1,7 @@
 import { existsSync, readdirSync } from 'node:fs'
 import { join } from 'node:path'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
-import { boxMesh, icosphere, mergeMeshes, writeObj, writePly } from '../../shared/geometry'
+import { boxMesh, icosphere, mergeMeshes, twoSphereBody, writeObj, writePly } from '../../shared/geometry'
 import { Agent } from './support/http'
 import { uploadLobe } from './support/lobes'
 import { startServer, type RunningServer } from './support/server'
@@ -156,6 +156,18 @@ describe('lobe uploads through the API', () => {
     const calm = await waitForSurface(as.viewer, res.json.id, 120_000)
     expect(calm.properties.liftOff).toBeNull()
     expect(calm.surfaceCautions).toEqual([])
+  })
+
+  it('cautions about overhangs (slopes above 90° without spin) under a small lobe sitting on a large one', async () => {
+    // A 0.3 km sphere whose centre is 1.25 km from a 1 km sphere's: under the small one, the
+    // large one's pull points away from the surface (slope near 180° at its underside; the
+    // geometry of the two spheres, common practice, no source).
+    const res = await upload(as.analyst, writeObj(twoSphereBody(1, 0.3, 1.25, 48)), 'pebble-on-boulder.obj', { density: '1500', units: 'km' })
+    expect(res.status, res.text).toBe(201)
+    const done = await waitForSurface(as.viewer, res.json.id, 120_000)
+    expect(done.properties.slopeDeg.max).toBeGreaterThan(90)
+    expect(done.surfaceCautions.map((c: { code: string }) => c.code)).toEqual(['surface-overhang'])
+    expect(done.surfaceCautions[0].message).toMatch(/with no spin: gravity there points away from the surface/)
   })
 
   it('flags a mesh of two separate bodies: the warning, the count in the report and in the list item', async () => {
