@@ -24,12 +24,13 @@ export const heliocentricOrbitSchema = z.object({
 })
 export type HeliocentricOrbit = z.infer<typeof heliocentricOrbitSchema>
 
+// The patterns accept the empty string: an empty field gets only the "enter …" message.
 export const recordDesignationSchema = z.string().trim()
   .min(1, 'Enter a designation').max(60, 'Use at most 60 characters')
-  .regex(/^[\p{L}\p{N}][\p{L}\p{N} ()/'+._-]*$/u, 'Use letters, digits, spaces and ( ) / \' + . _ - only')
+  .regex(/^(?:[\p{L}\p{N}][\p{L}\p{N} ()/'+._-]*)?$/u, 'Use letters, digits, spaces and ( ) / \' + . _ - only')
 export const recordTagSchema = z.string().trim().toLowerCase()
   .min(1, 'Tags cannot be empty').max(40, 'Tags have at most 40 characters')
-  .regex(/^[\p{L}\p{N}][\p{L}\p{N} ._-]*$/u, 'Tags use letters, digits, spaces and . _ - only')
+  .regex(/^(?:[\p{L}\p{N}][\p{L}\p{N} ._-]*)?$/u, 'Tags use letters, digits, spaces and . _ - only')
 
 const idList = z.array(z.number().int().positive()).max(200, 'At most 200 links')
 
