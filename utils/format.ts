@@ -1,3 +1,4 @@
+import { significantText } from '~~/shared/utils/number-text'
 /**
  * Numbers for tables: 5 significant digits, scientific notation outside [1e-3, 1e6). Display only:
  * full precision stays in exports.
@@ -14,14 +15,7 @@ export function fmt(value: unknown, digits = 5, scale = 0): string {
   if (value === 0) return '0'
   const a = Math.abs(value)
   if (scale > 0 && a < NOISE * scale) return '0'
-  if (a >= 1e-3 && a < 1e6) return Number(value.toPrecision(digits)).toString()
-  const [m, e] = value.toExponential(digits - 1).split('e')
-  return `${Number(m)}×10${superscript(Number(e))}`
-}
-
-function superscript(n: number): string {
-  const map: Record<string, string> = { '-': '⁻', '0': '⁰', '1': '¹', '2': '²', '3': '³', '4': '⁴', '5': '⁵', '6': '⁶', '7': '⁷', '8': '⁸', '9': '⁹' }
-  return String(n).split('').map(c => map[c] ?? c).join('')
+  return significantText(value, digits)
 }
 
 /** Largest finite magnitude among the numbers of `v` (0 when none). */

@@ -1,17 +1,23 @@
-import { recordSpreadNote, recordSpreadText, recordValueText } from '../../shared/utils/records-export'
+import { recordSpreadNote, recordSpreadText } from '../../shared/utils/records-export'
+import { significantText } from '../../shared/utils/number-text'
 
 interface MailValue { id: number, label: string, subjectLabel: string, value: number | number[], unit: string, spread: Record<string, number | string> | null, referenceRadius: number | null }
 
+/** Mails show 6 significant digits; the record page and its exports carry full precision. */
+const readable = (v: number) => significantText(v, 6)
+
 function line(v: MailValue): string {
-  const spread = recordSpreadText(v.spread)
-  const r = v.referenceRadius === null ? '' : ` (reference radius ${v.referenceRadius} m)`
-  const note = recordSpreadNote(v.value, v.spread, v.unit)
-  return `- #${v.id} ${v.label}, ${v.subjectLabel}: ${recordValueText(v.value)} ${v.unit}${spread ? ` ${spread}` : ''}${r}${note ? `\n    Note: ${note}` : ''}`
+  const spread = recordSpreadText(v.spread, readable)
+  const r = v.referenceRadius === null ? '' : ` (reference radius ${readable(v.referenceRadius)} m)`
+  const note = recordSpreadNote(v.value, v.spread, v.unit, readable)
+  const value = Array.isArray(v.value) ? `[${v.value.map(readable).join(', ')}]` : readable(v.value)
+  return `- #${v.id} ${v.label}, ${v.subjectLabel}: ${value} ${v.unit}${spread ? ` ${spread}` : ''}${r}${note ? `\n    Note: ${note}` : ''}`
 }
 
 const FOOTER = [
   '',
   'Values are model estimates under stated assumptions (density, homogeneity, mesh as given), not measurements.',
+  'Numbers here are rounded to 6 significant digits; the record page and its exports carry full precision.',
   'You get this mail because of your record mail settings (Account → Record mails).',
 ]
 

@@ -1,6 +1,7 @@
 import { createHash } from 'node:crypto'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { perturbedEllipsoid, writeObj, writePly } from '../../shared/geometry'
+import { significantText } from '../../shared/utils/number-text'
 import { openBrowser } from './support/browser'
 import { Agent } from './support/http'
 import { uploadLobe, waitForStudy } from './support/lobes'
@@ -113,7 +114,7 @@ describe('records acceptance: upload → study → attach → mail → review �
     const notice = await mailTo('reviewer@example.org', /proposed for 2061 AC4/)
     expect(notice.subject).toBe('[Isthmus] 2 values proposed for 2061 AC4')
     expect(notice.text).toContain(`#${speedAtt.id} Contact speed`)
-    expect(notice.text).toContain(String(speed1))
+    expect(notice.text).toContain(`${significantText(speed1, 6)} m s⁻¹`) // 6 digits in mails; full precision on the page
     expect(notice.text).toContain(`#${j2Att.id} Merged J2`)
     expect(notice.text).toContain(`/objects/${recordId}`)
 

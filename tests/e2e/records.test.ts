@@ -1,3 +1,4 @@
+import { significantText } from '../../shared/utils/number-text'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { boxMesh, writeObj } from '../../shared/geometry'
 import { Agent, latestMailTo, linkIn } from './support/http'
@@ -186,7 +187,9 @@ describe('object records: attach, review, supersede, export, mail', () => {
 
     const mail = await latestMailTo(as.admin, 'reviewer@example.org')
     expect(mail.subject).toContain('2047 RZ3')
-    expect(mail.text).toContain(String(lobeDense.properties.mass))
+    // 6 significant digits in the mail, full precision on the record page and in its exports
+    expect(mail.text).toContain(significantText(lobeDense.properties.mass, 6))
+    expect(mail.text).toContain('rounded to 6 significant digits')
     expect(mail.text).toContain(`/objects/${recordId}`)
     expect(await count(`select count(*) from mail_messages where envelope_to like '%second.reviewer@example.org%' and subject like '%proposed%'`)).toBe(0)
     // The record is linked to the lobe because of the attachment.
