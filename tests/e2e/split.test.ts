@@ -46,10 +46,11 @@ describe('split a whole-body lobe at a plane (POST /api/lobes/:id/split)', () =>
     expect(res.json.lobes).toHaveLength(2)
     // The plane comes back in metres, where it was asked for.
     expect(res.json.plane.point[0]).toBeCloseTo(XI * 1000, 6)
-    // Part A is the +normal side (sphere 2's side), part B the −normal side.
-    const [vPos, vNeg] = await volumes(res.json.lobes)
-    expect(Math.abs(vPos! / V_POS - 1)).toBeLessThan(TOL)
-    expect(Math.abs(vNeg! / V_NEG - 1)).toBeLessThan(TOL)
+    // Part A is the larger part: here the −normal side (sphere 1's), part B the +normal side.
+    expect(res.json.lobes.map((l: { name: string }) => l.name)).toEqual(['two-spheres — part A', 'two-spheres — part B'])
+    const [vA, vB] = await volumes(res.json.lobes)
+    expect(Math.abs(vA! / V_NEG - 1)).toBeLessThan(TOL)
+    expect(Math.abs(vB! / V_POS - 1)).toBeLessThan(TOL)
     // Reading the point as km (×1000 again) would put the plane 1.2e6 m away and leave no second part.
     const far = await analyst.agent.post(`/api/lobes/${lobeId}/split`, { plane: { point: [XI * 1e6, 0, 0], normal: [1, 0, 0] } })
     expect(far.status).toBe(422)
@@ -65,7 +66,9 @@ describe('split a whole-body lobe at a plane (POST /api/lobes/:id/split)', () =>
     const [v1, v2] = await volumes(res.json.lobes)
     // Each part names its parent and says that its cut face is synthetic.
     for (const [i, part] of (res.json.lobes as any[]).entries()) {
-      expect(part.report.origin).toMatchObject({ kind: 'cut', lobeId, lobeName: 'two-spheres', side: i === 0 ? '+normal' : '−normal' })
+      // part A is the larger (sphere 1's, at smaller x): on the −normal side when the normal is +x
+      const sideA = n[0]! > 0 ? '−normal' : '+normal', sideB = sideA === '−normal' ? '+normal' : '−normal'
+      expect(part.report.origin).toMatchObject({ kind: 'cut', lobeId, lobeName: 'two-spheres', side: i === 0 ? sideA : sideB })
       expect(part.report.origin.plane.point[0]).toBe(res.json.plane.point[0])
       const cut = part.warnings.find((w: { code: string }) => w.code === 'cut-face')
       expect(cut.message).toContain(`Cut from lobe #${lobeId} 'two-spheres'`)
@@ -77,6 +80,7 @@ describe('split a whole-body lobe at a plane (POST /api/lobes/:id/split)', () =>
       expect((await analyst.agent.get(`/api/lobes/${part.id}`)).json.report.origin.lobeId).toBe(lobeId)
     }
     const small = Math.min(v1!, v2!), large = Math.max(v1!, v2!)
+    expect(v1).toBe(large)
     // A plane shift δ changes the parts by about the neck area π(R1² − x_i²) δ: allow the 20 m above.
     const slack = Math.PI * (R1 * R1 - XI * XI) * 0.02 * KM3
     expect(Math.abs(small - V_POS)).toBeLessThan(TOL * V_POS + slack)

@@ -13,7 +13,7 @@ const body = z.object({
 })
 
 /**
- * Cut a whole-body mesh at its neck into two closed lobes of their own → 201 `{ plane, neckArea, lobes: [A, B] }`.
+ * Cut a whole-body mesh at its neck into two closed lobes of their own → 201 `{ plane, neckArea, lobes: [A, B] }`, A the larger part.
  * Each part names its parent in `report.origin` (`{ kind: 'cut', lobeId, lobeName, side, plane, neckArea }`)
  * and carries a 'cut-face' warning: its flat cut face is synthetic.
  */
@@ -39,13 +39,16 @@ export default defineEventHandler(async (event) => {
     throw toHttpError(error)
   }
   const made = []
-  for (const [i, path] of outPaths.entries()) {
+  // Part A is the larger part, part B the smaller (the usual order of a primary and a secondary).
+  const order = split.positiveVolume >= split.negativeVolume ? [0, 1] : [1, 0]
+  for (const [rank, i] of order.entries()) {
+    const path = outPaths[i]!
     const side = i === 0 ? '+normal' : '−normal'
     // The parent is known only here: each part keeps it in its report, and says in a warning that
     // its flat cut face was made by the cut, not uploaded.
     const origin = { kind: 'cut', lobeId: lobe.id, lobeName: lobe.name, side, plane: split.plane, neckArea: split.neckArea }
     made.push(await lobeFromAnalysisMesh(path, {
-      ownerId: actor.id, name: `${lobe.name} — part ${i === 0 ? 'A' : 'B'}`, fileName: `${lobe.name}-part-${i === 0 ? 'a' : 'b'}.ply`, density: lobe.density,
+      ownerId: actor.id, name: `${lobe.name} — part ${rank === 0 ? 'A' : 'B'}`, fileName: `${lobe.name}-part-${rank === 0 ? 'a' : 'b'}.ply`, density: lobe.density,
       extraWarnings: [cutFaceWarning(lobe, split, side)], origin,
     }))
   }
