@@ -28,6 +28,7 @@ export async function seedDemoLobes(db: DB, members: Record<string, number>) {
     const sha256 = createHash('sha256').update(bytes).digest('hex')
     const filePath = join(tmp, `demo-${sha256}`)
     await writeFile(filePath, bytes)
-    await ingestLobe({ filePath, size: bytes.length, sha256, originalName: d.file, ownerId: owner, name: d.name, units: 'km', density: d.density, spinPeriodHours: d.name === 'Marrow pair — primary' ? 3.9 : undefined })
+    const { lobe } = await ingestLobe({ filePath, size: bytes.length, sha256, originalName: d.file, ownerId: owner, name: d.name, units: 'km', density: d.density, spinPeriodHours: d.name === 'Marrow pair — primary' ? 3.9 : undefined })
+    await audit(null, { actorId: null, action: 'lobe.demo-seeded', subjectType: 'lobe', subjectId: lobe.id, detail: { name: d.name, sha256, density: d.density } }, db)
   }
 }

@@ -35,6 +35,7 @@ export async function seedDemoStudy(db: DB, members: Record<Role, number>) {
     },
   })
   const study = await createStudy(db, members.analyst, a, b, input)
+  await audit(null, { actorId: null, action: 'study.demo-seeded', subjectType: 'study', subjectId: study.id, detail: { lobeA: a.id, lobeB: b.id } }, db)
   const record = await db.select({ id: schema.objects.id }).from(schema.objects).where(sql`${schema.objects.designation} = '2041 KD9' collate nocase`).get()
   if (record) await ensureLink(db, record.id, { studyId: study.id }, 'manual', members.analyst)
 }

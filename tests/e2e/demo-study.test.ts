@@ -50,6 +50,13 @@ describe('demo contact study', () => {
     const links = (await viewer.get(`/api/objects/${record.id}`)).json.links
     expect(links.studies.map((s: { id: number }) => s.id)).toContain(seeded.id)
 
+    // the seeds are in the audit trail like any other change
+    const admin = new Agent(server.url)
+    await admin.signIn('admin@example.org', 'isthmus-demo')
+    const actions = (await admin.get('/api/audit?limit=200')).json.items.map((e: { action: string, subjectId: string }) => `${e.action} ${e.subjectId}`)
+    expect(actions).toContain(`study.demo-seeded ${seeded.id}`)
+    expect(actions.filter((a: string) => a.startsWith('lobe.demo-seeded'))).toHaveLength(4)
+
     await server.restart()
     const after = await demoStudies(viewer)
     expect(after.map((s: { id: number, status: string }) => [s.id, s.status])).toEqual([[seeded.id, 'done']])
