@@ -10,7 +10,7 @@
 import type { Mat3, TriMesh, Vec3 } from './types'
 import { GeometryError } from './types'
 import { symmetricEigen } from './linalg'
-import { faceComponents } from './validate'
+import { faceComponents, vertexBounds } from './validate'
 import { harmonicIntegralsFromMoments, harmonicsFromIntegrals, rescaleHarmonics } from './harmonics'
 import { polyhedronMoments } from './moments'
 import type { Harmonics } from './harmonics'
@@ -92,8 +92,8 @@ export function massProperties(mesh: TriMesh, opts: { density: number, reference
   const I = mesh.indices
   const nv = P.length / 3
   if (nv === 0 || I.length === 0) throw new GeometryError('empty-mesh', 'massProperties: the mesh has no faces')
-  const box = boundingBox(P)
-  const [minx, miny, minz] = box.min, [maxx, maxy, maxz] = box.max
+  const { box } = vertexBounds(P)
+  const minx = box[0]!, miny = box[1]!, minz = box[2]!, maxx = box[3]!, maxy = box[4]!, maxz = box[5]!
   const ox = (minx + maxx) / 2, oy = (miny + maxy) / 2, oz = (minz + maxz) / 2
   // monomial moments about o, degree 0..4 (MOMENT_MONOMIALS order: 1; x y z; xx xy xz yy yz zz; ...)
   const { moments, surfaceArea } = polyhedronMoments(mesh, [ox, oy, oz])
@@ -166,27 +166,8 @@ export function massProperties(mesh: TriMesh, opts: { density: number, reference
   return props
 }
 
-/** Vertices per call of the block functions below (called per block so that V8 optimises them early). */
+/** Vertices per call of `farthestBlock` (called per block so that V8 optimises it early). */
 const VERTEX_BLOCK = 16384
-
-/** Axis-aligned bounding box of the vertices, m. */
-function boundingBox(P: Float64Array): { min: Vec3, max: Vec3 } {
-  const box = Float64Array.of(Infinity, Infinity, Infinity, -Infinity, -Infinity, -Infinity)
-  const nv = P.length / 3
-  for (let v = 0; v < nv; v += VERTEX_BLOCK) boxBlock(P, v, Math.min(nv, v + VERTEX_BLOCK), box)
-  return { min: [box[0]!, box[1]!, box[2]!], max: [box[3]!, box[4]!, box[5]!] }
-}
-
-function boxBlock(P: Float64Array, from: number, to: number, box: Float64Array): void {
-  let minx = box[0]!, miny = box[1]!, minz = box[2]!, maxx = box[3]!, maxy = box[4]!, maxz = box[5]!
-  for (let v = from; v < to; v++) {
-    const x = P[3 * v]!, y = P[3 * v + 1]!, z = P[3 * v + 2]!
-    if (x < minx) minx = x; if (x > maxx) maxx = x
-    if (y < miny) miny = y; if (y > maxy) maxy = y
-    if (z < minz) minz = z; if (z > maxz) maxz = z
-  }
-  box[0] = minx; box[1] = miny; box[2] = minz; box[3] = maxx; box[4] = maxy; box[5] = maxz
-}
 
 /** Largest squared distance from c to a vertex, m². */
 function farthestSquared(P: Float64Array, c: Vec3): number {

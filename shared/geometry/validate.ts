@@ -101,10 +101,8 @@ export function validateMesh(mesh: TriMesh, opts: ValidateOptions = {}): Validat
   const numbering = src ? ` (${FILE_FACE_NUMBERING})` : ' (triangles numbered from 0)'
 
   // 1. finite coordinates, bounding box
-  const box = new Float64Array([Infinity, Infinity, Infinity, -Infinity, -Infinity, -Infinity])
   const badV: number[] = []
-  let nBadV = 0
-  for (let v = 0; v < nv0; v += BOX_BLOCK) nBadV += boundsBlock(P0, v, Math.min(nv0, v + BOX_BLOCK), box, badV)
+  const { box, nonFinite: nBadV } = vertexBounds(P0, badV)
   const minx = box[0]!, miny = box[1]!, minz = box[2]!, maxx = box[3]!, maxy = box[4]!, maxz = box[5]!
   if (nBadV > 0) throw new GeometryError('non-finite', `validateMesh: ${nBadV} vertices have non-finite coordinates; first: ${badV.join(', ')} (vertices numbered from 0 in file order)`, issuesFor(badV, 'non-finite coordinate', 'vertices'))
 
@@ -292,6 +290,18 @@ function largestBlock(I: Uint32Array, from: number, to: number): number {
 
 /** Vertices per call of `boundsBlock`. */
 const BOX_BLOCK = 8192
+
+/**
+ * Bounding box [minx, miny, minz, maxx, maxy, maxz] (m) of the finite vertices of P, and how many
+ * vertices have a non-finite coordinate (the first few listed in `bad`, numbered from 0).
+ */
+export function vertexBounds(P: Float64Array, bad: number[] = []): { box: Float64Array, nonFinite: number } {
+  const box = Float64Array.of(Infinity, Infinity, Infinity, -Infinity, -Infinity, -Infinity)
+  const nv = P.length / 3
+  let nonFinite = 0
+  for (let v = 0; v < nv; v += BOX_BLOCK) nonFinite += boundsBlock(P, v, Math.min(nv, v + BOX_BLOCK), box, bad)
+  return { box, nonFinite }
+}
 
 /**
  * Widens box [minx, miny, minz, maxx, maxy, maxz] (m) by the finite vertices from..to−1; returns

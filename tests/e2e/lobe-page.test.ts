@@ -1,7 +1,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import type { Page } from 'playwright-core'
 import { boxMesh, icosphere, mergeMeshes, twoSphereBody, writeObj, writePly } from '../../shared/geometry'
-import { openBrowser } from './support/browser'
+import { openBrowser, signInBrowser } from './support/browser'
 import { Agent } from './support/http'
 import { uploadLobe } from './support/lobes'
 import { startServer, type RunningServer } from './support/server'
@@ -44,8 +44,7 @@ describe('the lobe pages in a real browser: cautions, round-off, errors where th
     ball = (await uploadLobe(analyst, writeObj(icosphere(2, 1)), 'ball.obj', { density: '1000', units: 'km' })).json
     octahedron = (await uploadLobe(analyst, new TextEncoder().encode(OCTAHEDRON), 'octahedron.obj', { density: '1000', units: 'km' })).json
     browser = await openBrowser()
-    const signIn = await browser.context.request.post(`${server.url}/api/session`, { data: { email: 'analyst@example.org', password: 'isthmus-demo' }, headers: { origin: server.url } })
-    expect(signIn.status()).toBe(200)
+    await signInBrowser(browser.context, server.url)
   })
   afterAll(async () => {
     await browser?.close()

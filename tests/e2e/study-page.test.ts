@@ -1,6 +1,6 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { icosphere, writePly } from '../../shared/geometry'
-import { openBrowser } from './support/browser'
+import { openBrowser, signInBrowser } from './support/browser'
 import { Agent } from './support/http'
 import { uploadLobe, waitForStudy } from './support/lobes'
 import { startServer, type RunningServer } from './support/server'
@@ -157,8 +157,7 @@ describe('in a real browser: the study result page', () => {
   })
 
   it('does not offer a lobe against itself; follows the lobes with the spread\'s density range; shows units and where defaults come from', async () => {
-    const signIn = await browser.context.request.post(`${server.url}/api/session`, { data: { email: 'analyst@example.org', password: 'isthmus-demo' }, headers: { origin: server.url } })
-    expect(signIn.status()).toBe(200)
+    await signInBrowser(browser.context, server.url)
     const page = await browser.context.newPage()
     await page.goto(`${server.url}/studies/new?lobeA=${lobeIds[0]}&lobeB=${lobeIds[1]}`)
     // Lobe A's choice is not offered as B (and B's not as A).
@@ -193,8 +192,7 @@ describe('in a real browser: the study result page', () => {
   })
 
   it('warns in the New study form when the orbit surely misses, and defaults a bound orbit to one that touches', async () => {
-    const signIn = await browser.context.request.post(`${server.url}/api/session`, { data: { email: 'analyst@example.org', password: 'isthmus-demo' }, headers: { origin: server.url } })
-    expect(signIn.status()).toBe(200)
+    await signInBrowser(browser.context, server.url)
     const page = await browser.context.newPage()
     await page.goto(`${server.url}/studies/new?lobeA=${lobeIds[0]}&lobeB=${lobeIds[1]}`)
     await page.getByLabel('Kind').selectOption('bound')

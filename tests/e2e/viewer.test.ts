@@ -2,7 +2,7 @@ import { existsSync, readFileSync } from 'node:fs'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import type { Page } from 'playwright-core'
 import { icosphere, writePly } from '../../shared/geometry'
-import { openBrowser } from './support/browser'
+import { openBrowser, signInBrowser } from './support/browser'
 import { Agent } from './support/http'
 import { uploadLobe, waitForStudy } from './support/lobes'
 import { startServer, type RunningServer } from './support/server'
@@ -87,8 +87,7 @@ describe('the 3D views in a real browser (software WebGL)', () => {
     expect(res.status, res.text).toBe(201)
     ball = res.json
     browser = await openBrowser()
-    const signIn = await browser.context.request.post(`${server.url}/api/session`, { data: { email: 'analyst@example.org', password: 'isthmus-demo' }, headers: { origin: server.url } })
-    expect(signIn.status()).toBe(200)
+    await signInBrowser(browser.context, server.url)
   })
   afterAll(async () => {
     await browser?.close()

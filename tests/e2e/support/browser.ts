@@ -1,6 +1,7 @@
 import { mkdtempSync, rmSync } from 'node:fs'
 import { tmpdir } from 'node:os'
 import { join } from 'node:path'
+import { expect } from 'vitest'
 import { chromium, type BrowserContext } from 'playwright-core'
 
 export const CHROMIUM = process.env.CHROMIUM_PATH || '/usr/bin/chromium'
@@ -24,4 +25,10 @@ export async function openBrowser(): Promise<{ context: BrowserContext, close: (
       rmSync(profile, { recursive: true, force: true })
     },
   }
+}
+
+/** Signs the browser's context in (a session cookie for its pages), as the demo analyst unless told. */
+export async function signInBrowser(context: BrowserContext, serverUrl: string, email = 'analyst@example.org', password = 'isthmus-demo'): Promise<void> {
+  const res = await context.request.post(`${serverUrl}/api/session`, { data: { email, password }, headers: { origin: serverUrl } })
+  expect(res.status()).toBe(200)
 }
