@@ -1,8 +1,9 @@
 import { defineConfig } from 'drizzle-kit'
+import { useConfig } from './server/utils/config'
 
 export default defineConfig({
   dialect: 'sqlite',
   schema: './server/db/schema.ts',
   out: './server/db/migrations',
-  dbCredentials: { url: process.env.DATABASE_URL ?? 'file:./data/isthmus.db' },
+  dbCredentials: { url: useConfig().databaseUrl },
 })

@@ -7,7 +7,7 @@
 import { existsSync } from 'node:fs'
 import { spawnSync } from 'node:child_process'
 import { fileURLToPath } from 'node:url'
-import { ellipsoidMesh, writePly } from '../shared/geometry'
+import { ellipsoidMesh, writePly } from '#shared/geometry'
 import { Agent } from '../tests/e2e/support/http'
 import { uploadLobe } from '../tests/e2e/support/lobes'
 import { startServer } from '../tests/e2e/support/server'

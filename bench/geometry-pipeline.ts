@@ -5,10 +5,10 @@
  * RSS before the first read.
  */
 import { readFileSync } from 'node:fs'
-import { readMesh } from '../shared/geometry/readers'
-import { validateMesh } from '../shared/geometry/validate'
-import { massProperties } from '../shared/geometry/mass'
-import { warmPipeline } from '../shared/geometry/warm'
+import { readMesh } from '#shared/geometry/readers'
+import { validateMesh } from '#shared/geometry/validate'
+import { massProperties } from '#shared/geometry/mass'
+import { warmPipeline } from '#shared/geometry/warm'
 
 function pipelinePhase(path: string, warm: boolean): void {
   // 'warm': first the start-up warm-up the server's analysis worker does

@@ -10,7 +10,7 @@
 import { createRequire } from 'node:module'
 import { fileURLToPath } from 'node:url'
 import type { Client } from '@libsql/client'
-import { icosphere, writePly } from '../shared/geometry'
+import { icosphere, writePly } from '#shared/geometry'
 import { Agent } from '../tests/e2e/support/http'
 import { uploadLobe } from '../tests/e2e/support/lobes'
 import { startServer } from '../tests/e2e/support/server'

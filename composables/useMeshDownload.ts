@@ -1,4 +1,4 @@
-import { decodeDisplayMesh, type DisplayMesh } from '~~/shared/utils/mesh-binary'
+import { decodeDisplayMesh, type DisplayMesh } from '#shared/utils/mesh-binary'
 
 export interface DownloadProgress {
   /** Bytes received so far (body bytes; 0 for a cache revalidation answered 304 by the browser). */

@@ -3,7 +3,7 @@ import {
   MeshLambertMaterial, Quaternion, SRGBColorSpace, SphereGeometry, TubeGeometry, Vector3,
 } from 'three'
 import type { Material, Object3D, Texture } from 'three'
-import type { DisplayMesh } from '~~/shared/utils/mesh-binary'
+import type { DisplayMesh } from '#shared/utils/mesh-binary'
 import { viridis, type V3 } from '~~/utils/viewer-math'
 
 /**

@@ -21,6 +21,8 @@ if (!existsSync(entry) || statSync(entry).mtimeMs < Math.max(...SOURCES.map(newe
   if (r.status !== 0) process.exit(r.status ?? 1)
 }
 
+// This launcher runs before (and outside) the server, as plain Node without TypeScript, so it sets
+// the demo's environment itself; the server reads every setting through server/utils/config.ts.
 const env = {
   ...process.env,
   ISTHMUS_DEMO: '1',

@@ -6,7 +6,8 @@ import { createInterface } from 'node:readline/promises'
 import { createClient } from '@libsql/client'
 import { Hash } from '@adonisjs/hash'
 import { Scrypt } from '@adonisjs/hash/drivers/scrypt'
-import { ROLES, type Role } from '../shared/types/roles'
+import { ROLES, type Role } from '#shared/types/roles'
+import { useConfig } from '../server/utils/config'
 
 const [emailArg, role = 'admin', ...nameParts] = process.argv.slice(2)
 if (!emailArg || !ROLES.includes(role as Role)) {
@@ -14,6 +15,7 @@ if (!emailArg || !ROLES.includes(role as Role)) {
   process.exit(2)
 }
 const email = emailArg.trim().toLowerCase()
+// A one-off input of this command, not a server setting, so it stays out of useConfig().
 let password = process.env.ISTHMUS_NEW_PASSWORD
 if (!password) {
   const rl = createInterface({ input: process.stdin, output: process.stdout })
@@ -26,7 +28,7 @@ if (password.length < 10) {
 }
 // The same scrypt hasher and defaults as nuxt-auth-utils' hashPassword, so the server verifies it.
 const hash = await new Hash(new Scrypt({})).make(password)
-const db = createClient({ url: process.env.DATABASE_URL || 'file:./data/isthmus.db' })
+const db = createClient({ url: useConfig().databaseUrl, authToken: useConfig().databaseAuthToken })
 const found = await db.execute({ sql: 'select id from users where email = ?', args: [email] })
 if (found.rows.length) {
   await db.execute({ sql: 'update users set role = ?, password_hash = ?, active = 1 where email = ?', args: [role, hash, email] })

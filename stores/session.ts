@@ -1,6 +1,6 @@
 import { defineStore } from 'pinia'
-import type { Role } from '~~/shared/types/roles'
-import { roleSatisfies } from '~~/shared/types/roles'
+import type { Role } from '#shared/types/roles'
+import { roleSatisfies } from '#shared/types/roles'
 
 export interface SessionMember {
   id: number

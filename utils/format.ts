@@ -1,4 +1,4 @@
-import { significantText } from '~~/shared/utils/number-text'
+import { significantText } from '#shared/utils/number-text'
 /**
  * Numbers for tables: 5 significant digits, scientific notation outside [1e-3, 1e6). Display only:
  * full precision stays in exports.

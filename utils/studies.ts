@@ -2,10 +2,10 @@
  * Display helpers for the contact-study page (pages only): the study's inputs as a table, the
  * cautions beside the spread, and the neck-tension caution of the merged body.
  */
-import type { StudyInput } from '~~/shared/types/studies'
-import { AU_M } from '~~/shared/types/studies'
-import { QuantityReadError, RECORD_QUANTITIES, readQuantity } from '~~/shared/types/quantities'
-import { recordDisplay, recordSpreadNote } from '~~/shared/utils/records-export'
+import type { StudyInput } from '#shared/types/studies'
+import { AU_M } from '#shared/types/studies'
+import { QuantityReadError, RECORD_QUANTITIES, readQuantity } from '#shared/types/quantities'
+import { recordDisplay, recordSpreadNote } from '#shared/utils/records-export'
 import { fmt, fmtVec } from './format'
 
 /** One row of a study table: label, value, unit; `keys` name the input fields (dotted paths) the row shows. */

@@ -25,7 +25,7 @@ export async function audit(event: H3Event | null, input: AuditInput, db: Pick<D
  * the one our reverse proxy appended. Entries to its left come from the client and can be forged.
  */
 export function clientIp(event: H3Event): string {
-  if (process.env.ISTHMUS_TRUST_PROXY === '1') {
+  if (useConfig().trustProxy) {
     const hops = (getRequestHeader(event, 'x-forwarded-for') ?? '').split(',').map(h => h.trim()).filter(Boolean)
     if (hops.length) return hops.at(-1)!
   }

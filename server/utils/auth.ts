@@ -1,6 +1,6 @@
 import type { H3Event } from 'h3'
 import { and, eq, isNull } from 'drizzle-orm'
-import { type Role, roleSatisfies } from '../../shared/types/roles'
+import { type Role, roleSatisfies } from '#shared/types/roles'
 
 /** The member behind a request, read from the database on every request. */
 export interface Actor {

@@ -1,3 +1,4 @@
+import { availableParallelism } from 'node:os'
 import { dirname, resolve } from 'node:path'
 import { fileURLToPath } from 'node:url'
 
@@ -32,6 +33,24 @@ export interface IsthmusConfig {
   passwordResetMaxPerAddress: number
   passwordResetMaxPerIp: number
   passwordResetWindowMs: number
+  /** `ISTHMUS_TRUST_PROXY=1`: the client address is the rightmost `X-Forwarded-For` entry. */
+  trustProxy: boolean
+  /** Folder of SQL migrations set by `ISTHMUS_MIGRATIONS_DIR` (else the built or source folder). */
+  migrationsDir?: string
+  /** Demo mode seeds the demo contact study too (`ISTHMUS_DEMO_STUDY`, default on). */
+  demoStudy: boolean
+  /** Evaluation points of a lobe's surface fields (at least 100). */
+  fieldPoints: number
+  /** Face budget of the display copy sent to the 3D view (at least 1000). */
+  displayFaces: number
+  /** Worker threads: `ISTHMUS_WORKERS`, else the number of cores; between 1 and 8. */
+  workers: number
+  /** Folder holding the worker script, when a deployment moves it (`ISTHMUS_WORKERS_DIR`). */
+  workersDir?: string
+  /** Niceness of worker threads on Linux (`ISTHMUS_WORKER_NICE`). */
+  workerNice: number
+  /** First admin created on start outside demo mode, when both e-mail and password are set. */
+  firstAdmin?: { email: string, password: string, name: string }
 }
 
 function int(name: string, fallback: number): number {
@@ -40,6 +59,11 @@ function int(name: string, fallback: number): number {
   const n = Number(raw)
   if (!Number.isFinite(n) || n < 0) throw new Error(`${name} must be a non-negative number, got "${raw}"`)
   return n
+}
+
+/** Lenient reading for tuning knobs: anything not a positive number gives the fallback. */
+function tuning(name: string, fallback: number): number {
+  return Number(process.env[name]) || fallback
 }
 
 let cached: IsthmusConfig | undefined
@@ -71,8 +95,36 @@ export function useConfig(): IsthmusConfig {
     passwordResetMaxPerAddress: int('ISTHMUS_PASSWORD_RESET_MAX_PER_ADDRESS', 5),
     passwordResetMaxPerIp: int('ISTHMUS_PASSWORD_RESET_MAX_PER_IP', 20),
     passwordResetWindowMs: int('ISTHMUS_PASSWORD_RESET_WINDOW_MINUTES', 60) * 60_000,
+    trustProxy: process.env.ISTHMUS_TRUST_PROXY === '1',
+    migrationsDir: process.env.ISTHMUS_MIGRATIONS_DIR || undefined,
+    demoStudy: process.env.ISTHMUS_DEMO_STUDY !== '0',
+    fieldPoints: Math.max(100, tuning('ISTHMUS_FIELD_POINTS', 5000)),
+    displayFaces: Math.max(1000, tuning('ISTHMUS_DISPLAY_FACES', 300_000)),
+    workers: Math.max(1, Math.min(tuning('ISTHMUS_WORKERS', availableParallelism()), 8)),
+    workersDir: process.env.ISTHMUS_WORKERS_DIR || undefined,
+    workerNice: Number(process.env.ISTHMUS_WORKER_NICE ?? 10),
+    firstAdmin: firstAdmin(),
   }
   return cached
+}
+
+function firstAdmin(): IsthmusConfig['firstAdmin'] {
+  const email = process.env.ISTHMUS_ADMIN_EMAIL?.trim().toLowerCase()
+  const password = process.env.ISTHMUS_ADMIN_PASSWORD
+  return email && password ? { email, password, name: process.env.ISTHMUS_ADMIN_NAME || 'Administrator' } : undefined
+}
+
+/**
+ * The secret sealing session cookies. Read at call time, not cached: in demo mode the server
+ * generates one at start and hands it to nuxt-auth-utils through the same variable.
+ */
+export function sessionPassword(): string | undefined {
+  return process.env.NUXT_SESSION_PASSWORD || undefined
+}
+
+/** Hands the session secret to nuxt-auth-utils, which reads it from the environment itself. */
+export function setSessionPassword(secret: string) {
+  process.env.NUXT_SESSION_PASSWORD = secret
 }
 
 /** Folder of the running server entry (`.output/server` when built). */

@@ -34,7 +34,7 @@ let ready: Promise<DB> | undefined
 
 function migrationsFolder(): string {
   const candidates = [
-    process.env.ISTHMUS_MIGRATIONS_DIR,
+    useConfig().migrationsDir,
     join(serverEntryDir(), 'migrations'),
     resolve('server/db/migrations'),
   ].filter((p): p is string => !!p)

@@ -1,6 +1,6 @@
 import { eq, sql } from 'drizzle-orm'
-import type { Role } from '../../shared/types/roles'
-import { studyInputSchema } from '../../shared/types/studies'
+import type { Role } from '#shared/types/roles'
+import { studyInputSchema } from '#shared/types/studies'
 
 /**
  * The demo's contact study: the two invented "Tessaly" lobes meeting on a bound mutual orbit, with a
@@ -9,7 +9,7 @@ import { studyInputSchema } from '../../shared/types/studies'
  * exists. ISTHMUS_DEMO_STUDY=0 leaves it out (the end-to-end tests do, to keep their counts).
  */
 export async function seedDemoStudy(db: DB, members: Record<Role, number>) {
-  if (process.env.ISTHMUS_DEMO_STUDY === '0' || !members.analyst) return
+  if (!useConfig().demoStudy || !members.analyst) return
   const lobe = (name: string) => db.select().from(schema.lobes).where(eq(schema.lobes.name, name)).get()
   const [a, b] = [await lobe('Tessaly — large lobe'), await lobe('Tessaly — small lobe')]
   if (!a || !b) return

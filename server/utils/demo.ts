@@ -1,5 +1,5 @@
 import { eq } from 'drizzle-orm'
-import type { Role } from '../../shared/types/roles'
+import type { Role } from '#shared/types/roles'
 
 /** Demo accounts, created only when ISTHMUS_DEMO=1. Listed in README. */
 export const DEMO_PASSWORD = 'isthmus-demo'

@@ -1,8 +1,8 @@
 import { createHash } from 'node:crypto'
 import { readFile, writeFile } from 'node:fs/promises'
 import { join } from 'node:path'
-import { writePly } from '../../shared/geometry'
-import { decodeAnalysisMesh } from '../../shared/utils/mesh-binary'
+import { writePly } from '#shared/geometry'
+import { decodeAnalysisMesh } from '#shared/utils/mesh-binary'
 
 /**
  * Turns a derived analysis mesh (metres) into a stored lobe of its own (binary PLY file).

@@ -1,8 +1,8 @@
 import { rename, rm } from 'node:fs/promises'
 import { join } from 'node:path'
 import { asc, eq } from 'drizzle-orm'
-import { ALGORITHM_VERSION } from '../../shared/utils/version'
-import { sameFileWarning, sizeCheckWarning } from '../../shared/utils/lobe-checks'
+import { ALGORITHM_VERSION } from '#shared/utils/version'
+import { sameFileWarning, sizeCheckWarning } from '#shared/utils/lobe-checks'
 
 interface AnalyseResult {
   format: 'obj' | 'ply'

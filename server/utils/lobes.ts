@@ -4,14 +4,17 @@ import { readFile, writeFile } from 'node:fs/promises'
 import { join } from 'node:path'
 import { and, desc, eq, inArray } from 'drizzle-orm'
 import type { Job, Lobe } from '../db/schema'
-import { summarise, type MassProperties, type Vec3 } from '../../shared/geometry'
-import { ALGORITHM_VERSION } from '../../shared/utils/version'
+import { summarise, type MassProperties, type Vec3 } from '#shared/geometry'
+import { ALGORITHM_VERSION } from '#shared/utils/version'
 
 /** Evaluation points for surface fields (faces of a simplified copy; the field is the full polyhedron's). */
 export function fieldPointBudget() {
-  return Math.max(100, Number(process.env.ISTHMUS_FIELD_POINTS) || 5000)
+  return useConfig().fieldPoints
 }
-export const DISPLAY_FACE_BUDGET = Math.max(1000, Number(process.env.ISTHMUS_DISPLAY_FACES) || 300_000)
+/** Face budget of the display copy sent to the 3D view (analysis always uses the full mesh). */
+export function displayFaceBudget() {
+  return useConfig().displayFaces
+}
 
 export interface SurfaceSummary {
   evaluation: { surface: 'mesh' | 'simplified', points: number, meshFaces: number }

@@ -1,4 +1,4 @@
-import { ROLE_LABELS, type Role } from '../../shared/types/roles'
+import { ROLE_LABELS, type Role } from '#shared/types/roles'
 
 /** Every mail's subject starts with this, so people can filter Isthmus mail. */
 export const MAIL_SUBJECT_PREFIX = '[Isthmus]'

@@ -1,9 +1,9 @@
 import { existsSync } from 'node:fs'
 import { readFile } from 'node:fs/promises'
 import type { H3Event } from 'h3'
-import { writeObj, writePly } from '../../shared/geometry'
-import { decodeAnalysisMesh } from '../../shared/utils/mesh-binary'
-import { idParamSchema } from '../../shared/types/account'
+import { writeObj, writePly } from '#shared/geometry'
+import { decodeAnalysisMesh } from '#shared/utils/mesh-binary'
+import { idParamSchema } from '#shared/types/account'
 
 /** The merged body's full mesh (metres, contact frame) as OBJ or binary PLY (double). */
 export async function sendMergedMesh(event: H3Event, format: 'obj' | 'ply') {

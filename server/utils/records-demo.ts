@@ -1,6 +1,6 @@
 import { eq, sql } from 'drizzle-orm'
-import type { Role } from '../../shared/types/roles'
-import { quantityDef, readQuantity, supersedeGroup } from '../../shared/types/quantities'
+import type { Role } from '#shared/types/roles'
+import { quantityDef, readQuantity, supersedeGroup } from '#shared/types/quantities'
 
 /** Two invented records (no real object): designations in years no survey has reached. */
 const DEMO_RECORDS = [

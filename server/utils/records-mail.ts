@@ -1,5 +1,5 @@
-import { recordSpreadNote, recordSpreadText } from '../../shared/utils/records-export'
-import { significantText } from '../../shared/utils/number-text'
+import { recordSpreadNote, recordSpreadText } from '#shared/utils/records-export'
+import { significantText } from '#shared/utils/number-text'
 
 interface MailValue { id: number, label: string, subjectLabel: string, value: number | number[], unit: string, spread: Record<string, number | string> | null, referenceRadius: number | null }
 

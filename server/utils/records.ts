@@ -1,10 +1,10 @@
 import type { H3Event } from 'h3'
 import { and, asc, desc, eq, inArray, ne, sql } from 'drizzle-orm'
 import type { Attachment, AttachmentComment, Lobe, ObjectRecord, Study } from '../db/schema'
-import { quantityDef, RECORD_SUBJECT_LABELS, type RecordSubject } from '../../shared/types/quantities'
-import type { RecordMailKind, HeliocentricOrbit } from '../../shared/types/records'
-import { idParamSchema } from '../../shared/types/account'
-import { recordSpreadNote } from '../../shared/utils/records-export'
+import { quantityDef, RECORD_SUBJECT_LABELS, type RecordSubject } from '#shared/types/quantities'
+import type { RecordMailKind, HeliocentricOrbit } from '#shared/types/records'
+import { idParamSchema } from '#shared/types/account'
+import { recordSpreadNote } from '#shared/utils/records-export'
 
 /** Printed with every record, export and citation: the values are model estimates. */
 export const RECORD_CAUTIONS = [

@@ -36,7 +36,7 @@ export function onServerReady(hook: (db: DB) => Promise<void>) {
 }
 
 function ensureSessionPassword(config: IsthmusConfig) {
-  const current = process.env.NUXT_SESSION_PASSWORD
+  const current = sessionPassword()
   if (current && current.length >= 32) return
   if (current) throw new Error('NUXT_SESSION_PASSWORD must be at least 32 characters long')
   if (!config.demo) {
@@ -45,17 +45,17 @@ function ensureSessionPassword(config: IsthmusConfig) {
   mkdirSync(config.dataDir, { recursive: true })
   const file = join(config.dataDir, 'session-secret')
   if (!existsSync(file)) writeFileSync(file, randomBytes(32).toString('base64url'), { mode: 0o600 })
-  process.env.NUXT_SESSION_PASSWORD = readFileSync(file, 'utf8').trim()
+  setSessionPassword(readFileSync(file, 'utf8').trim())
 }
 
 async function ensureFirstAdmin(db: DB) {
-  const email = process.env.ISTHMUS_ADMIN_EMAIL?.trim().toLowerCase()
-  const password = process.env.ISTHMUS_ADMIN_PASSWORD
-  if (!email || !password) return
+  const admin = useConfig().firstAdmin
+  if (!admin) return
+  const { email, password, name } = admin
   const existing = await db.select({ id: schema.users.id }).from(schema.users).where(eq(schema.users.email, email)).get()
   if (existing) return
   const [user] = await db.insert(schema.users).values({
-    email, name: process.env.ISTHMUS_ADMIN_NAME || 'Administrator', role: 'admin', passwordHash: await hashPassword(password),
+    email, name, role: 'admin', passwordHash: await hashPassword(password),
   }).returning({ id: schema.users.id })
   await audit(null, { actorId: null, action: 'member.bootstrap', subjectType: 'user', subjectId: user!.id, detail: { email } }, db)
 }

@@ -27,7 +27,7 @@ export function ensureDisplayMesh(sha256: string, units: 'm' | 'km'): Promise<st
   if (existsSync(paths.display)) return Promise.resolve(paths.display)
   let pending = pendingDisplay.get(paths.key)
   if (!pending) {
-    pending = useWorkerPool().run('display', { analysisMeshPath: paths.analysis, displayMeshPath: paths.display, displayFaceBudget: DISPLAY_FACE_BUDGET }, { priority: 3 })
+    pending = useWorkerPool().run('display', { analysisMeshPath: paths.analysis, displayMeshPath: paths.display, displayFaceBudget: displayFaceBudget() }, { priority: 3 })
       .then(() => paths.display)
       .finally(() => pendingDisplay.delete(paths.key))
     pendingDisplay.set(paths.key, pending)

@@ -1,12 +1,12 @@
 import { join } from 'node:path'
 import { and, desc, eq, inArray } from 'drizzle-orm'
 import type { Lobe, Study } from '../db/schema'
-import type { StudyInput } from '../../shared/types/studies'
-import { AU_M } from '../../shared/types/studies'
-import type { MassProperties } from '../../shared/geometry'
-import { CONTACT_ALGORITHM_VERSION } from '../../shared/geometry/contactStudy'
-import { summariseSpread, type SpreadSample } from '../../shared/geometry/spread'
-import { ALGORITHM_VERSION } from '../../shared/utils/version'
+import type { StudyInput } from '#shared/types/studies'
+import { AU_M } from '#shared/types/studies'
+import type { MassProperties } from '#shared/geometry'
+import { CONTACT_ALGORITHM_VERSION } from '#shared/geometry/contactStudy'
+import { summariseSpread, type SpreadSample } from '#shared/geometry/spread'
+import { ALGORITHM_VERSION } from '#shared/utils/version'
 
 export const STUDY_ALGORITHM_VERSION = `${ALGORITHM_VERSION}; ${CONTACT_ALGORITHM_VERSION}`
 
@@ -106,7 +106,7 @@ async function runStudy(db: DB, study: Study, a: Lobe, b: Lobe) {
       keyB: `${b.sha256}-${b.units}`,
       unionAnalysisPath: paths.analysis,
       unionDisplayPath: paths.display,
-      displayFaceBudget: DISPLAY_FACE_BUDGET,
+      displayFaceBudget: displayFaceBudget(),
       input: {
         densityA: input.densityA,
         densityB: input.densityB,

@@ -1,5 +1,5 @@
 import { z } from 'zod'
-import { ROLES } from './roles'
+import { ROLES } from '#shared/types/roles'
 
 /** One schema per form, used by the page and by the handler. */
 export const emailSchema = z.string().trim().toLowerCase().email('Enter a valid e-mail address').max(254)

@@ -1,5 +1,5 @@
 import { z } from 'zod'
-import { RECORD_SUBJECTS, STUDY_ONLY_SUBJECTS, quantityDef } from './quantities'
+import { RECORD_SUBJECTS, STUDY_ONLY_SUBJECTS, quantityDef } from '#shared/types/quantities'
 
 /** One schema per form, used by the record pages and the handlers. */
 

@@ -1,6 +1,6 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import type { Page } from 'playwright-core'
-import { boxMesh, icosphere, mergeMeshes, twoSphereBody, writeObj, writePly } from '../../shared/geometry'
+import { boxMesh, icosphere, mergeMeshes, twoSphereBody, writeObj, writePly } from '#shared/geometry'
 import { openBrowser, signInBrowser } from './support/browser'
 import { Agent } from './support/http'
 import { uploadLobe } from './support/lobes'

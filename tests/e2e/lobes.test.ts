@@ -1,7 +1,7 @@
 import { existsSync, readdirSync } from 'node:fs'
 import { join } from 'node:path'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
-import { boxMesh, icosphere, mergeMeshes, twoSphereBody, writeObj, writePly } from '../../shared/geometry'
+import { boxMesh, icosphere, mergeMeshes, twoSphereBody, writeObj, writePly } from '#shared/geometry'
 import { Agent } from './support/http'
 import { uploadLobe } from './support/lobes'
 import { startServer, type RunningServer } from './support/server'

@@ -1,5 +1,5 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
-import { boxMesh, writeObj } from '../../shared/geometry'
+import { boxMesh, writeObj } from '#shared/geometry'
 import { openBrowser } from './support/browser'
 import { Agent } from './support/http'
 import { uploadLobe } from './support/lobes'

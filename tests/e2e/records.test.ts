@@ -1,6 +1,6 @@
-import { significantText } from '../../shared/utils/number-text'
+import { significantText } from '#shared/utils/number-text'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
-import { boxMesh, writeObj } from '../../shared/geometry'
+import { boxMesh, writeObj } from '#shared/geometry'
 import { Agent, latestMailTo, linkIn } from './support/http'
 import { uploadLobe } from './support/lobes'
 import { startServer, type RunningServer } from './support/server'

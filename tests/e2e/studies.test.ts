@@ -1,5 +1,5 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
-import { icosphere, writePly } from '../../shared/geometry'
+import { icosphere, writePly } from '#shared/geometry'
 import { Agent } from './support/http'
 import { uploadLobe, waitForStudy } from './support/lobes'
 import { startServer, type RunningServer } from './support/server'

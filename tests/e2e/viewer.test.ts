@@ -1,7 +1,7 @@
 import { existsSync, readFileSync } from 'node:fs'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import type { Page } from 'playwright-core'
-import { icosphere, writePly } from '../../shared/geometry'
+import { icosphere, writePly } from '#shared/geometry'
 import { openBrowser, signInBrowser } from './support/browser'
 import { Agent } from './support/http'
 import { uploadLobe, waitForStudy } from './support/lobes'

@@ -1,4 +1,4 @@
-import { icosphere, seededRandom, writeObj, writePly } from '../../../shared/geometry'
+import { icosphere, seededRandom, writeObj, writePly } from '#shared/geometry'
 
 /** Seeded mutations of small valid meshes: byte flips, truncations and inserted junk tokens. */
 export function* mutatedMeshes(count: number, seed: number): Generator<{ bytes: Uint8Array, name: string }> {

@@ -1,10 +1,10 @@
 import { describe, expect, it } from 'vitest'
-import { icosphere, mergeMeshes } from '../../../shared/geometry/generate'
-import { overlapAndUnion } from '../../../shared/geometry/booleans'
-import { massProperties } from '../../../shared/geometry/mass'
-import { breakupSpinPeriod, mergedBody, minimumDensityForPeriod } from '../../../shared/geometry/merged'
-import type { Mat3, TriMesh, Vec3 } from '../../../shared/geometry/types'
-import type { MassModel, MergedInput } from '../../../shared/geometry/merged'
+import { icosphere, mergeMeshes } from '#shared/geometry/generate'
+import { overlapAndUnion } from '#shared/geometry/booleans'
+import { massProperties } from '#shared/geometry/mass'
+import { breakupSpinPeriod, mergedBody, minimumDensityForPeriod } from '#shared/geometry/merged'
+import type { Mat3, TriMesh, Vec3 } from '#shared/geometry/types'
+import type { MassModel, MergedInput } from '#shared/geometry/merged'
 
 const G = 6.67430e-11
 

@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest'
-import { mat3ToQuat, matMul, quatAlignPrincipalFrames, quatFromAxisAngle, quatFromEulerZYXDeg, quatMultiply, quatToMat3, rotateVector, symmetricEigen3 } from '../../../shared/geometry/quat'
-import { createRng } from '../../../shared/geometry/rng'
-import type { Mat3 } from '../../../shared/geometry/types'
+import { mat3ToQuat, matMul, quatAlignPrincipalFrames, quatFromAxisAngle, quatFromEulerZYXDeg, quatMultiply, quatToMat3, rotateVector, symmetricEigen3 } from '#shared/geometry/quat'
+import { createRng } from '#shared/geometry/rng'
+import type { Mat3 } from '#shared/geometry/types'
 
 const rz = (a: number): Mat3 => [[Math.cos(a), -Math.sin(a), 0], [Math.sin(a), Math.cos(a), 0], [0, 0, 1]]
 const ry = (a: number): Mat3 => [[Math.cos(a), 0, Math.sin(a)], [0, 1, 0], [-Math.sin(a), 0, Math.cos(a)]]

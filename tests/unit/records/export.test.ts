@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest'
-import { recordCitation, recordCsv, recordCsvCell, recordDisplay, recordSpreadNote, recordSpreadOffset, recordSpreadText, RECORD_CSV_COLUMNS, type RecordExport, type RecordExportValue } from '../../../shared/utils/records-export'
+import { recordCitation, recordCsv, recordCsvCell, recordDisplay, recordSpreadNote, recordSpreadOffset, recordSpreadText, RECORD_CSV_COLUMNS, type RecordExport, type RecordExportValue } from '#shared/utils/records-export'
 
 function value(over: Partial<RecordExportValue>): RecordExportValue {
   return {

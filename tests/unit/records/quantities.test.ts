@@ -2,9 +2,9 @@ import { readdirSync, readFileSync } from 'node:fs'
 import { join } from 'node:path'
 import { createClient } from '@libsql/client'
 import { describe, expect, it } from 'vitest'
-import { boxMesh, massProperties } from '../../../shared/geometry'
-import { quantitiesFor, quantityDef, readQuantity, supersedeGroup, QuantityReadError, PAIR_QUANTITY_KEYS, RECORD_QUANTITIES, RECORD_SUBJECT_LABELS } from '../../../shared/types/quantities'
-import { attachSchema, heliocentricOrbitSchema, objectCreateSchema } from '../../../shared/types/records'
+import { boxMesh, massProperties } from '#shared/geometry'
+import { quantitiesFor, quantityDef, readQuantity, supersedeGroup, QuantityReadError, PAIR_QUANTITY_KEYS, RECORD_QUANTITIES, RECORD_SUBJECT_LABELS } from '#shared/types/quantities'
+import { attachSchema, heliocentricOrbitSchema, objectCreateSchema } from '#shared/types/records'
 
 const read = (key: string, source: unknown) => readQuantity(quantityDef(key)!, source)
 

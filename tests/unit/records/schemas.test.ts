@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest'
-import { recordDesignationSchema, recordTagSchema } from '../../../shared/types/records'
+import { recordDesignationSchema, recordTagSchema } from '#shared/types/records'
 
 const messages = (r: { success: boolean, error?: { issues: { message: string }[] } }) => r.error?.issues.map(i => i.message) ?? []
 

@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest'
-import { icosphere, massProperties } from '../../../shared/geometry'
-import { SIZE_CHECK_MAX_RADIUS_M, SIZE_CHECK_MIN_RADIUS_M, lengthText, sameFileWarning, sizeCheckWarning } from '../../../shared/utils/lobe-checks'
+import { icosphere, massProperties } from '#shared/geometry'
+import { SIZE_CHECK_MAX_RADIUS_M, SIZE_CHECK_MIN_RADIUS_M, lengthText, sameFileWarning, sizeCheckWarning } from '#shared/utils/lobe-checks'
 
 describe('size check: a size no target body has points at the coordinate units', () => {
   it('warns for a 600 km-radius sphere read in km, asking about metres, with the size and the thresholds', () => {

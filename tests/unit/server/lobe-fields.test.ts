@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest'
-import { labelIssue, lobeUploadFieldsSchema } from '../../../shared/types/lobes'
+import { labelIssue, lobeUploadFieldsSchema } from '#shared/types/lobes'
 
 describe('upload field messages read after the field labels, paths unchanged', () => {
   it('a density of 0, text or nothing names "Bulk density", with path "density"', () => {

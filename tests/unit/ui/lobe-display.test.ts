@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest'
-import { boxMesh, icosphere, massProperties } from '../../../shared/geometry'
+import { boxMesh, icosphere, massProperties } from '#shared/geometry'
 import { COEFFICIENT_ROUND_OFF, MOMENT_DEGENERACY_REL, SLOPE_ROUND_OFF_DEG, bodyCount, coefficientCell, momentDegeneracy, slopeCell } from '../../../utils/lobe-display'
 
 describe('principal axes left undefined by equal moments', () => {

@@ -1,9 +1,9 @@
 import { describe, expect, it } from 'vitest'
-import { icosphere } from '../../../shared/geometry/generate'
-import { massProperties } from '../../../shared/geometry/mass'
-import { mergedBody } from '../../../shared/geometry/merged'
-import { runContactStudy } from '../../../shared/geometry/contactStudy'
-import { studyInputSchema } from '../../../shared/types/studies'
+import { icosphere } from '#shared/geometry/generate'
+import { massProperties } from '#shared/geometry/mass'
+import { mergedBody } from '#shared/geometry/merged'
+import { runContactStudy } from '#shared/geometry/contactStudy'
+import { studyInputSchema } from '#shared/types/studies'
 import { neckTensionCaution, studyInputRows, studySpreadNote } from '../../../utils/studies'
 
 const G = 6.67430e-11 // CODATA 2018
