@@ -1,0 +1,438 @@
+/**
+ * Treecode for the gravity of a constant-density closed polyhedron: potential and acceleration at
+ * many points in O(N log N) instead of the direct sum's O(N) per point.
+ *
+ * Method. By the divergence theorem (SCIENCE.md §8 [derived]) the field of a homogeneous body is
+ *   U(r) = (Gρ/2) ∮ n̂′·(r′ − r)/|r′ − r| dS′ = (Gρ/2) [Φ₀(r) − r·Φ(r)],   g(r) = −Gρ Φ(r),
+ *   Φ₀(r) = ∮ (n̂′·r′)/|r − r′| dS′,   Φ(r) = ∮ n̂′/|r − r′| dS′,
+ * four Laplace single-layer potentials whose densities (n̂·r′ = the face plane's offset, and the three
+ * components of n̂) are constant on each face. The faces are put in a bounding-volume hierarchy
+ * (median splits of face centroids). Every node stores the multipole moments of the four densities
+ * (complex solid harmonics, solid-harmonics.ts), exact for its triangles up to the order p
+ * (simplexHarmonicSums at the leaves, translated to parent centres: Greengard & Rokhlin 1987,
+ * J. Comput. Phys. 73, 325). A target point walks the tree (Barnes & Hut 1986, Nature 324, 446):
+ * a node of radius a at distance d is used through its expansion when a/d < θ and the truncation
+ * bound (Q/(d − a))(a/d)^{k+1} [Q = Σ|σ|·area] is below the tolerance for some order k ≤ p (the
+ * smallest such k is used); otherwise its children are visited, and the faces of a leaf that fails
+ * are evaluated exactly with the face form of Werner & Scheeres 1997 (Celest. Mech. Dyn. Astron.
+ * 65, 313): ∫_face dS′/|r′ − r| = Σ_edges (m̂_e·r_e) L_e − (n̂·r_f) ω_f.
+ *
+ * Accuracy: `accuracy` is the target relative error of |g| (U is held ten times tighter) measured
+ * against the field scale at the point (the surface field of the volume-equivalent sphere inside it,
+ * falling as 1/r² and 1/r outside). The achieved error is not guaranteed by the bound alone: callers
+ * report it from sampled exact (direct-sum) checks (`sampledErrors`).
+ *
+ * Frames and units: points are in the FILE frame (metres); internally everything is relative to
+ * the volume centroid `origin`. U > 0 (m² s⁻²), g = ∇U (m s⁻²), SCIENCE.md §0.
+ */
+import type { TriMesh, Vec3 } from '../types'
+import { GeometryError } from '../types'
+import { G } from '../mass'
+import { factorial, harmonicCount, irregularHarmonics, simplexHarmonicSums, translateMoments, translationScratch } from './solid-harmonics'
+
+export interface TreecodeOptions {
+  /** Target relative error of |g| (U: accuracy/10). Default 1e-7. */
+  accuracy?: number
+  /** Highest multipole order stored per node. Default 12. */
+  order?: number
+  /** Largest node radius / distance for which an expansion may be used. Default 0.6. */
+  theta?: number
+  /** Faces per leaf (at most). Default 32. */
+  leafSize?: number
+}
+
+export const TREECODE_DEFAULTS = { accuracy: 1e-7, order: 12, theta: 0.6, leafSize: 32 } as const
+
+export interface GravityTree {
+  /** Volume centroid, file frame, m. */
+  origin: Vec3
+  /** Volume, m³. */
+  volume: number
+  /** Volume-equivalent radius, m (the field scale of the tolerance). */
+  equivalentRadius: number
+  /** Vertices relative to origin, m. */
+  vertices: Float64Array
+  /** Faces in tree order (3 vertex indices each). */
+  faces: Uint32Array
+  /** Tree position → original face index. */
+  faceOrder: Uint32Array
+  /** Unit outward normals in tree order. */
+  normals: Float64Array
+  /** n̂·v (m), the face plane offsets from the origin, tree order. */
+  offsets: Float64Array
+  /** Node arrays: centre (3 per node, relative to origin), radius (m), first face, face count, first child (−1: leaf). */
+  nodeCenter: Float64Array
+  nodeRadius: Float64Array
+  nodeFirst: Uint32Array
+  nodeCount: Uint32Array
+  nodeChild: Int32Array
+  /** Σ area (m²) and Σ |offset|·area (m³) per node: the Q of the truncation bounds. */
+  nodeArea: Float64Array
+  nodeOffsetArea: Float64Array
+  /** Moment slot of a node, −1 for nodes without an expansion (always opened). */
+  nodeSlot: Int32Array
+  /** Moments: per slot 4 densities × harmonicCount(order) complex, entry-major, m ≥ 1 pre-doubled. */
+  moments: Float64Array
+  options: Required<TreecodeOptions>
+}
+
+/**
+ * Builds the tree and the multipole moments of a closed, outward-oriented mesh (run validateMesh
+ * first). Cost ~ N·p² for the leaves plus nodes·p⁴ for the translations.
+ * @throws GeometryError 'bad-argument' for options out of range.
+ */
+export function buildGravityTree(mesh: TriMesh, options: TreecodeOptions = {}, onProgress?: (fraction: number) => void): GravityTree {
+  const opts = { ...TREECODE_DEFAULTS, ...options }
+  if (!(opts.accuracy > 0 && opts.accuracy < 1)) throw new GeometryError('bad-argument', `buildGravityTree: accuracy must be in (0, 1), got ${opts.accuracy}`)
+  if (!Number.isInteger(opts.order) || opts.order < 2 || opts.order > 40) throw new GeometryError('bad-argument', `buildGravityTree: order must be an integer in [2, 40], got ${opts.order}`)
+  if (!(opts.theta > 0 && opts.theta < 1)) throw new GeometryError('bad-argument', `buildGravityTree: theta must be in (0, 1), got ${opts.theta}`)
+  if (!Number.isInteger(opts.leafSize) || opts.leafSize < 1) throw new GeometryError('bad-argument', `buildGravityTree: leafSize must be a positive integer, got ${opts.leafSize}`)
+  const P = mesh.positions, I = mesh.indices
+  const nv = P.length / 3, nf = I.length / 3
+  if (nf < 4) throw new GeometryError('bad-argument', `buildGravityTree: a closed mesh has at least 4 faces, got ${nf}`)
+
+  // volume centroid (relative to the first vertex first, for precision)
+  const o0x = P[0]!, o0y = P[1]!, o0z = P[2]!
+  let v6 = 0, sx = 0, sy = 0, sz = 0
+  for (let f = 0; f < 3 * nf; f += 3) {
+    const a = 3 * I[f]!, b = 3 * I[f + 1]!, c = 3 * I[f + 2]!
+    const ax = P[a]! - o0x, ay = P[a + 1]! - o0y, az = P[a + 2]! - o0z
+    const bx = P[b]! - o0x, by = P[b + 1]! - o0y, bz = P[b + 2]! - o0z
+    const cx = P[c]! - o0x, cy = P[c + 1]! - o0y, cz = P[c + 2]! - o0z
+    const d = ax * (by * cz - bz * cy) + ay * (bz * cx - bx * cz) + az * (bx * cy - by * cx)
+    v6 += d; sx += d * (ax + bx + cx); sy += d * (ay + by + cy); sz += d * (az + bz + cz)
+  }
+  if (!(v6 > 0)) throw new GeometryError('bad-argument', `buildGravityTree: the mesh encloses volume ${v6 / 6} m³; it must be closed and outward-oriented (validateMesh)`)
+  const origin: Vec3 = [o0x + sx / (4 * v6), o0y + sy / (4 * v6), o0z + sz / (4 * v6)]
+  const V = new Float64Array(3 * nv)
+  for (let v = 0; v < nv; v++) {
+    V[3 * v] = P[3 * v]! - origin[0]; V[3 * v + 1] = P[3 * v + 1]! - origin[1]; V[3 * v + 2] = P[3 * v + 2]! - origin[2]
+  }
+
+  // face centroids, then the hierarchy by median splits along the widest centroid extent
+  const cen = new Float64Array(3 * nf)
+  for (let f = 0; f < nf; f++) {
+    const a = 3 * I[3 * f]!, b = 3 * I[3 * f + 1]!, c = 3 * I[3 * f + 2]!
+    for (let k = 0; k < 3; k++) cen[3 * f + k] = (V[a + k]! + V[b + k]! + V[c + k]!) / 3
+  }
+  const order = new Uint32Array(nf)
+  for (let f = 0; f < nf; f++) order[f] = f
+  const maxNodes = 2 * Math.ceil(nf / Math.max(1, Math.floor(opts.leafSize / 2))) + 1
+  const first = new Uint32Array(maxNodes), count = new Uint32Array(maxNodes), child = new Int32Array(maxNodes).fill(-1)
+  let nodes = 1
+  first[0] = 0; count[0] = nf
+  const keys = new Float64Array(nf)
+  const todo: number[] = [0]
+  while (todo.length) {
+    const node = todo.pop()!
+    const s = first[node]!, n = count[node]!
+    if (n <= opts.leafSize) continue
+    let lox = Infinity, loy = Infinity, loz = Infinity, hix = -Infinity, hiy = -Infinity, hiz = -Infinity
+    for (let i = s; i < s + n; i++) {
+      const f = order[i]!
+      const x = cen[3 * f]!, y = cen[3 * f + 1]!, z = cen[3 * f + 2]!
+      if (x < lox) lox = x; if (x > hix) hix = x
+      if (y < loy) loy = y; if (y > hiy) hiy = y
+      if (z < loz) loz = z; if (z > hiz) hiz = z
+    }
+    const ex = hix - lox, ey = hiy - loy, ez = hiz - loz
+    const axis = ex >= ey && ex >= ez ? 0 : ey >= ez ? 1 : 2
+    const half = n >> 1
+    // sort the range by the centroid coordinate (typed-array sort of keys with the face index packed)
+    const sub = order.subarray(s, s + n)
+    for (let i = 0; i < n; i++) keys[i] = cen[3 * sub[i]! + axis]!
+    nthElement(sub, keys, half)
+    const l = nodes++, r = nodes++
+    first[l] = s; count[l] = half; first[r] = s + half; count[r] = n - half
+    child[node] = l
+    todo.push(l, r)
+  }
+  onProgress?.(0.1)
+
+  // faces, normals and plane offsets in tree order
+  const faces = new Uint32Array(3 * nf), normals = new Float64Array(3 * nf), offsets = new Float64Array(nf), areas = new Float64Array(nf)
+  for (let t = 0; t < nf; t++) {
+    const f = order[t]!
+    const ia = I[3 * f]!, ib = I[3 * f + 1]!, ic = I[3 * f + 2]!
+    faces[3 * t] = ia; faces[3 * t + 1] = ib; faces[3 * t + 2] = ic
+    const a = 3 * ia, b = 3 * ib, c = 3 * ic
+    const ux = V[b]! - V[a]!, uy = V[b + 1]! - V[a + 1]!, uz = V[b + 2]! - V[a + 2]!
+    const wx = V[c]! - V[a]!, wy = V[c + 1]! - V[a + 1]!, wz = V[c + 2]! - V[a + 2]!
+    const nx = uy * wz - uz * wy, ny = uz * wx - ux * wz, nz = ux * wy - uy * wx
+    const len = Math.hypot(nx, ny, nz)
+    if (!(len > 0)) throw new GeometryError('degenerate-face', `buildGravityTree: face ${f} has zero area`)
+    normals[3 * t] = nx / len; normals[3 * t + 1] = ny / len; normals[3 * t + 2] = nz / len
+    offsets[t] = (nx * V[a]! + ny * V[a + 1]! + nz * V[a + 2]!) / len
+    areas[t] = len / 2
+  }
+
+  // node centres (vertex bounding-box centres), radii (farthest vertex), Q sums
+  const nodeCenter = new Float64Array(3 * nodes), nodeRadius = new Float64Array(nodes), nodeArea = new Float64Array(nodes), nodeOffsetArea = new Float64Array(nodes)
+  for (let node = 0; node < nodes; node++) {
+    const s = first[node]!, n = count[node]!
+    let lox = Infinity, loy = Infinity, loz = Infinity, hix = -Infinity, hiy = -Infinity, hiz = -Infinity, A = 0, QA = 0
+    for (let t = s; t < s + n; t++) {
+      for (let k = 0; k < 3; k++) {
+        const v = 3 * faces[3 * t + k]!
+        const x = V[v]!, y = V[v + 1]!, z = V[v + 2]!
+        if (x < lox) lox = x; if (x > hix) hix = x
+        if (y < loy) loy = y; if (y > hiy) hiy = y
+        if (z < loz) loz = z; if (z > hiz) hiz = z
+      }
+      A += areas[t]!; QA += Math.abs(offsets[t]!) * areas[t]!
+    }
+    const cx = (lox + hix) / 2, cy = (loy + hiy) / 2, cz = (loz + hiz) / 2
+    let r2 = 0
+    for (let t = s; t < s + n; t++) {
+      for (let k = 0; k < 3; k++) {
+        const v = 3 * faces[3 * t + k]!
+        const dx = V[v]! - cx, dy = V[v + 1]! - cy, dz = V[v + 2]! - cz
+        const d2 = dx * dx + dy * dy + dz * dz
+        if (d2 > r2) r2 = d2
+      }
+    }
+    nodeCenter[3 * node] = cx; nodeCenter[3 * node + 1] = cy; nodeCenter[3 * node + 2] = cz
+    nodeRadius[node] = Math.sqrt(r2); nodeArea[node] = A; nodeOffsetArea[node] = QA
+  }
+  onProgress?.(0.2)
+
+  // moments on the leaves and on every third level (the levels between are always opened: a third
+  // of the translations of a binary tree): leaves from exact triangle integrals, the others by
+  // translating the moments of their nearest descendants that have them (children have larger ids)
+  const depth = new Uint8Array(nodes), slot = new Int32Array(nodes).fill(-1)
+  let slots = 0
+  for (let node = 0; node < nodes; node++) {
+    const c = child[node]!
+    if (c >= 0) { depth[c] = depth[node]! + 1; depth[c + 1] = depth[node]! + 1 }
+    if (c < 0 || depth[node]! % 3 === 0) slot[node] = slots++
+  }
+  const p = opts.order, T = harmonicCount(p), stride = 8 * T
+  const moments = new Float64Array(slots * stride)
+  const h = new Float64Array(2 * T), s1 = new Float64Array(2 * T), s2 = new Float64Array(2 * T), ts = translationScratch(p, 4)
+  const inv = new Float64Array(p + 1)
+  for (let n = 0; n <= p; n++) inv[n] = 1 / factorial(n + 2)
+  const below: number[] = []
+  let facesDone = 0
+  for (let node = nodes - 1; node >= 0; node--) {
+    if (slot[node]! < 0) continue
+    const base = slot[node]! * stride
+    const cx = nodeCenter[3 * node]!, cy = nodeCenter[3 * node + 1]!, cz = nodeCenter[3 * node + 2]!
+    const c = child[node]!
+    if (c >= 0) {
+      below.length = 0
+      below.push(c, c + 1)
+      while (below.length) {
+        const k = below.pop()!
+        if (slot[k]! < 0) { below.push(child[k]!, child[k]! + 1); continue }
+        translateMoments(moments, slot[k]! * stride, nodeCenter[3 * k]! - cx, nodeCenter[3 * k + 1]! - cy, nodeCenter[3 * k + 2]! - cz, p, 4, moments, base, ts)
+      }
+      continue
+    }
+    const s = first[node]!, n = count[node]!
+    for (let t = s; t < s + n; t++) {
+      const a = 3 * faces[3 * t]!, b = 3 * faces[3 * t + 1]!, cc = 3 * faces[3 * t + 2]!
+      simplexHarmonicSums(V[a]! - cx, V[a + 1]! - cy, V[a + 2]! - cz, V[b]! - cx, V[b + 1]! - cy, V[b + 2]! - cz, V[cc]! - cx, V[cc + 1]! - cy, V[cc + 2]! - cz, p, h, s1, s2)
+      const twoA = 2 * areas[t]!
+      const d0 = offsets[t]!, nx = normals[3 * t]!, ny = normals[3 * t + 1]!, nz = normals[3 * t + 2]!
+      for (let deg = 0; deg <= p; deg++) {
+        const w = twoA * inv[deg]!
+        for (let j = (deg * (deg + 1)) / 2; j <= (deg * (deg + 1)) / 2 + deg; j++) {
+          const re = w * h[2 * j]!, im = w * h[2 * j + 1]!
+          const o = base + 8 * j
+          moments[o] = moments[o]! + d0 * re; moments[o + 1] = moments[o + 1]! + d0 * im
+          moments[o + 2] = moments[o + 2]! + nx * re; moments[o + 3] = moments[o + 3]! + nx * im
+          moments[o + 4] = moments[o + 4]! + ny * re; moments[o + 5] = moments[o + 5]! + ny * im
+          moments[o + 6] = moments[o + 6]! + nz * re; moments[o + 7] = moments[o + 7]! + nz * im
+        }
+      }
+    }
+    facesDone += n
+    if ((node & 255) === 0) onProgress?.(0.2 + 0.7 * Math.min(1, facesDone / nf))
+  }
+  // the evaluation sums m ≥ 1 twice (conjugate pairs): double those entries once here
+  for (let k = 0; k < slots; k++) {
+    for (let deg = 1; deg <= p; deg++) {
+      for (let m = 1; m <= deg; m++) {
+        const o = k * stride + 8 * ((deg * (deg + 1)) / 2 + m)
+        for (let q = 0; q < 8; q++) moments[o + q] = 2 * moments[o + q]!
+      }
+    }
+  }
+  onProgress?.(1)
+  return {
+    origin, volume: v6 / 6, equivalentRadius: Math.cbrt((3 * v6) / (6 * 4 * Math.PI)), vertices: V, faces, faceOrder: order, normals, offsets,
+    nodeCenter, nodeRadius, nodeFirst: first.slice(0, nodes), nodeCount: count.slice(0, nodes), nodeChild: child.slice(0, nodes),
+    nodeArea, nodeOffsetArea, nodeSlot: slot, moments, options: opts,
+  }
+}
+
+/** Partial selection: puts the k-th smallest key at position k, smaller before, larger after (keys move with idx). */
+function nthElement(idx: Uint32Array, keys: Float64Array, k: number): void {
+  let lo = 0, hi = idx.length - 1
+  while (hi > lo) {
+    const pivot = keys[(lo + hi) >> 1]!
+    let i = lo, j = hi
+    while (i <= j) {
+      while (keys[i]! < pivot) i++
+      while (keys[j]! > pivot) j--
+      if (i <= j) {
+        const tk = keys[i]!; keys[i] = keys[j]!; keys[j] = tk
+        const ti = idx[i]!; idx[i] = idx[j]!; idx[j] = ti
+        i++; j--
+      }
+    }
+    if (k <= j) hi = j
+    else if (k >= i) lo = i
+    else return
+  }
+}
+
+/** Per-evaluation statistics (summed over the points of a call). */
+export interface TreecodeStats {
+  /** Expansion evaluations and their summed order. */
+  expansions: number
+  orderSum: number
+  /** Faces evaluated exactly. */
+  exactFaces: number
+}
+
+/** Scratch for one evaluating thread (no allocation per point). */
+export interface TreecodeScratch {
+  stack: Int32Array
+  theta: Float64Array
+  stats: TreecodeStats
+}
+
+export function treecodeScratch(tree: GravityTree): TreecodeScratch {
+  return { stack: new Int32Array(4 * 64 + tree.nodeRadius.length), theta: new Float64Array(2 * harmonicCount(tree.options.order)), stats: { expansions: 0, orderSum: 0, exactFaces: 0 } }
+}
+
+/**
+ * Φ₀ (m²) and Φ (m, 3 components) at a point relative to the origin, written to out[0..3].
+ * U = (Gρ/2)(Φ₀ − r·Φ), g = −GρΦ.
+ */
+export function treeLayerPotentials(tree: GravityTree, px: number, py: number, pz: number, scratch: TreecodeScratch, out: Float64Array): void {
+  const { nodeCenter: NC, nodeRadius: NR, nodeChild: CH, nodeFirst: NF, nodeCount: NN, nodeArea: NA, nodeOffsetArea: NQ, nodeSlot: SL, moments: M, vertices: V, faces: F, normals: Nn, offsets: Off } = tree
+  const { accuracy, theta, order } = tree.options
+  const T = harmonicCount(order), stride = 8 * T
+  const Th = scratch.theta, stack = scratch.stack, stats = scratch.stats
+  // tolerances (absolute) from the field scale at the point: |Φ| ≈ (4π/3) R³/max(r, R)², |Φ₀ − r·Φ| ≈ 2·(4π/3)·R³/max(r, R)
+  const R = tree.equivalentRadius
+  const rr = Math.max(R, Math.sqrt(px * px + py * py + pz * pz))
+  // (the bounds are pessimistic: the factors 25 and 0.5 put the measured errors of the test meshes
+  // at about half the requested accuracy on |g| and a tenth of it on U)
+  const tolG = 25 * accuracy * 4.18879 * R * R * R / (rr * rr)
+  const tolU = 0.5 * accuracy * 8.37758 * R * R * R / rr
+  let f0 = 0, fx = 0, fy = 0, fz = 0
+  let sp = 0
+  stack[sp++] = 0
+  while (sp > 0) {
+    const node = stack[--sp]!
+    const dx = px - NC[3 * node]!, dy = py - NC[3 * node + 1]!, dz = pz - NC[3 * node + 2]!
+    const d = Math.sqrt(dx * dx + dy * dy + dz * dz)
+    const a = NR[node]!
+    let k = -1
+    if (a < theta * d && SL[node]! >= 0) {
+      const rho = a / d
+      // smallest k with Q/(d − a)·ρ^{k+1} ≤ tol, for the vector density (Q = area) and the U combination
+      const qg = NA[node]! / (d - a), qu = 0.5 * (NQ[node]! + rr * NA[node]!) / (d - a)
+      const need = Math.min(tolG / qg, tolU / qu)
+      k = need >= 1 ? 0 : Math.ceil(Math.log(need) / Math.log(rho)) - 1
+      if (k < 1) k = 1
+      if (k > order) k = -1
+    }
+    if (k > 0) {
+      irregularHarmonics(dx, dy, dz, k, Th)
+      const base = SL[node]! * stride
+      const jn = harmonicCount(k)
+      for (let j = 0; j < jn; j++) {
+        const tr = Th[2 * j]!, ti = Th[2 * j + 1]!, o = base + 8 * j
+        f0 += M[o]! * tr + M[o + 1]! * ti
+        fx += M[o + 2]! * tr + M[o + 3]! * ti
+        fy += M[o + 4]! * tr + M[o + 5]! * ti
+        fz += M[o + 6]! * tr + M[o + 7]! * ti
+      }
+      stats.expansions++; stats.orderSum += k
+      continue
+    }
+    const c = CH[node]!
+    if (c >= 0) {
+      stack[sp++] = c; stack[sp++] = c + 1
+      continue
+    }
+    // exact faces: ∫ dS′/|r′ − r| = Σ_e (m̂_e·r_e) L_e − (n̂·r_f) ω_f
+    const s = NF[node]!, e = s + NN[node]!
+    stats.exactFaces += e - s
+    for (let t = s; t < e; t++) {
+      const ia = 3 * F[3 * t]!, ib = 3 * F[3 * t + 1]!, ic = 3 * F[3 * t + 2]!
+      const ax = V[ia]! - px, ay = V[ia + 1]! - py, az = V[ia + 2]! - pz
+      const bx = V[ib]! - px, by = V[ib + 1]! - py, bz = V[ib + 2]! - pz
+      const cx = V[ic]! - px, cy = V[ic + 1]! - py, cz = V[ic + 2]! - pz
+      const ra = Math.sqrt(ax * ax + ay * ay + az * az), rb = Math.sqrt(bx * bx + by * by + bz * bz), rc = Math.sqrt(cx * cx + cy * cy + cz * cz)
+      const nx = Nn[3 * t]!, ny = Nn[3 * t + 1]!, nz = Nn[3 * t + 2]!
+      // edges a→b, b→c, c→a; m̂_e·r_e = ((e × n̂)·r_i)/|e| = (n̂ · (r_i × e))/|e|, r_i × e = r_i × r_j
+      let sum = 0
+      {
+        const ex = bx - ax, ey = by - ay, ez = bz - az, len = Math.sqrt(ex * ex + ey * ey + ez * ez), q = ra + rb
+        const mr = (nx * (ay * bz - az * by) + ny * (az * bx - ax * bz) + nz * (ax * by - ay * bx)) / len
+        sum += mr * Math.log((q + len) / (q - len))
+      }
+      {
+        const ex = cx - bx, ey = cy - by, ez = cz - bz, len = Math.sqrt(ex * ex + ey * ey + ez * ez), q = rb + rc
+        const mr = (nx * (by * cz - bz * cy) + ny * (bz * cx - bx * cz) + nz * (bx * cy - by * cx)) / len
+        sum += mr * Math.log((q + len) / (q - len))
+      }
+      {
+        const ex = ax - cx, ey = ay - cy, ez = az - cz, len = Math.sqrt(ex * ex + ey * ey + ez * ez), q = rc + ra
+        const mr = (nx * (cy * az - cz * ay) + ny * (cz * ax - cx * az) + nz * (cx * ay - cy * ax)) / len
+        sum += mr * Math.log((q + len) / (q - len))
+      }
+      const df = nx * ax + ny * ay + nz * az
+      if (df !== 0) {
+        const num = ax * (by * cz - bz * cy) + ay * (bz * cx - bx * cz) + az * (bx * cy - by * cx)
+        const den = ra * rb * rc + ra * (bx * cx + by * cy + bz * cz) + rb * (cx * ax + cy * ay + cz * az) + rc * (ax * bx + ay * by + az * bz)
+        sum -= df * 2 * Math.atan2(num, den)
+      }
+      f0 += Off[t]! * sum
+      fx += nx * sum; fy += ny * sum; fz += nz * sum
+    }
+  }
+  out[0] = f0; out[1] = fx; out[2] = fy; out[3] = fz
+}
+
+/**
+ * U (m² s⁻²) and g (m s⁻², 3 per point) at points [start, end) (file frame, m, 3 per point), density
+ * ρ (kg m⁻³). Writes potential[i] and acceleration[3i..3i+2]; no allocation per point.
+ */
+export function treeFieldChunk(tree: GravityTree, density: number, points: Float64Array, start: number, end: number,
+  potential: Float64Array, acceleration: Float64Array, scratch: TreecodeScratch = treecodeScratch(tree)): void {
+  const k = G * density
+  const [ox, oy, oz] = tree.origin
+  const out = new Float64Array(4)
+  for (let i = start; i < end; i++) {
+    const x = points[3 * i]! - ox, y = points[3 * i + 1]! - oy, z = points[3 * i + 2]! - oz
+    treeLayerPotentials(tree, x, y, z, scratch, out)
+    potential[i] = 0.5 * k * (out[0]! - (x * out[1]! + y * out[2]! + z * out[3]!))
+    acceleration[3 * i] = -k * out[1]!; acceleration[3 * i + 1] = -k * out[2]!; acceleration[3 * i + 2] = -k * out[3]!
+  }
+}
+
+/**
+ * The same tree with every typed array on a SharedArrayBuffer, so worker threads receive it by
+ * postMessage without a copy (the moments of a million-face mesh are a few hundred MB).
+ */
+export function shareGravityTree(tree: GravityTree): GravityTree {
+  const share = <A extends Float64Array | Uint32Array | Int32Array>(a: A): A => {
+    if (a.buffer instanceof SharedArrayBuffer) return a
+    const Ctor = a.constructor as new (buffer: SharedArrayBuffer) => A
+    const out = new Ctor(new SharedArrayBuffer(a.byteLength))
+    out.set(a as never)
+    return out
+  }
+  return {
+    ...tree,
+    vertices: share(tree.vertices), faces: share(tree.faces), faceOrder: share(tree.faceOrder), normals: share(tree.normals), offsets: share(tree.offsets),
+    nodeCenter: share(tree.nodeCenter), nodeRadius: share(tree.nodeRadius), nodeFirst: share(tree.nodeFirst), nodeCount: share(tree.nodeCount),
+    nodeChild: share(tree.nodeChild), nodeArea: share(tree.nodeArea), nodeOffsetArea: share(tree.nodeOffsetArea), nodeSlot: share(tree.nodeSlot), moments: share(tree.moments),
+  }
+}
