@@ -1,6 +1,6 @@
 // Worker for the contact benchmark's spread: runs sample indices [from, to) on its own context.
 import { parentPort, workerData } from 'node:worker_threads'
-import { createSpreadContext, runSpreadSample } from '#shared/geometry/spread'
+import { createSpreadContext, runSpreadSample } from '#shared/geometry'
 
 const { meshA, meshB, base, from, to } = workerData
 const ctx = createSpreadContext({ ...base, meshA, meshB })

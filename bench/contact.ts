@@ -7,16 +7,8 @@
  */
 import { Worker } from 'node:worker_threads'
 import { fileURLToPath } from 'node:url'
-import { perturbedEllipsoid } from '#shared/geometry/generate'
-import { ContactBvhCache, firstContact, meshInContactFrame } from '#shared/geometry/contact'
-import { overlapAndUnion } from '#shared/geometry/booleans'
-import { findNeck } from '#shared/geometry/neck'
-import { massProperties } from '#shared/geometry/mass'
-import { mutualPotential, simplifyClosed } from '#shared/geometry/mutual'
-import { createSpreadContext, summariseSpread } from '#shared/geometry/spread'
-import type { SpreadSample, SpreadSpec } from '#shared/geometry/spread'
-import { quatFromAxisAngle } from '#shared/geometry/quat'
-import type { TriMesh, Vec3 } from '#shared/geometry/types'
+import { ContactBvhCache, createSpreadContext, findNeck, firstContact, massProperties, meshInContactFrame, mutualPotential, overlapAndUnion, perturbedEllipsoid, quatFromAxisAngle, simplifyClosed, summariseSpread } from '#shared/geometry'
+import type { SpreadSample, SpreadSpec, TriMesh, Vec3 } from '#shared/geometry'
 
 const ms = (t: number) => `${(performance.now() - t).toFixed(0)} ms`
 

@@ -5,10 +5,7 @@
  * RSS before the first read.
  */
 import { readFileSync } from 'node:fs'
-import { readMesh } from '#shared/geometry/readers'
-import { validateMesh } from '#shared/geometry/validate'
-import { massProperties } from '#shared/geometry/mass'
-import { warmPipeline } from '#shared/geometry/warm'
+import { massProperties, readMesh, validateMesh, warmPipeline } from '#shared/geometry'
 
 function pipelinePhase(path: string, warm: boolean): void {
   // 'warm': first the start-up warm-up the server's analysis worker does

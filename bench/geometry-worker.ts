@@ -1,6 +1,6 @@
 /** Worker for bench/geometry.ts: the server's surface-field job kernel (`surfaceFieldWithEscape`) on a slice of the points. */
 import { parentPort, workerData } from 'node:worker_threads'
-import { preparePolyhedron, surfaceFieldWithEscape } from '#shared/geometry/gravity'
+import { preparePolyhedron, surfaceFieldWithEscape } from '#shared/geometry'
 
 interface Job {
   positions: Float64Array

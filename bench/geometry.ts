@@ -17,10 +17,7 @@ import { join } from 'node:path'
 import { fileURLToPath } from 'node:url'
 import { Worker } from 'node:worker_threads'
 import { buildSync } from 'esbuild'
-import { ellipsoidMesh, perturbedEllipsoid } from '#shared/geometry/generate'
-import { writeObj, writePly } from '#shared/geometry/writers'
-import { validateMesh } from '#shared/geometry/validate'
-import { evaluationPoints, potential, preparePolyhedron, summarise } from '#shared/geometry/gravity'
+import { ellipsoidMesh, evaluationPoints, perturbedEllipsoid, potential, preparePolyhedron, summarise, validateMesh, writeObj, writePly } from '#shared/geometry'
 
 const ms = (t: number) => `${t.toFixed(0)} ms`
 

@@ -2,7 +2,7 @@ import { createHash } from 'node:crypto'
 import { writeFile } from 'node:fs/promises'
 import { join } from 'node:path'
 import { eq } from 'drizzle-orm'
-import { perturbedEllipsoid, writePly, writeObj } from '#shared/geometry'
+import { perturbedEllipsoid, writeObj, writePly } from '#shared/geometry'
 
 /**
  * Demo lobes of an invented Kuiper-belt contact binary, "Tessaly" (a made-up designation), and of

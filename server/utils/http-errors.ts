@@ -1,4 +1,4 @@
-import { GeometryError } from '#shared/geometry/types'
+import { GeometryError } from '#shared/geometry'
 
 /**
  * Maps a core GeometryError to 422 with `data: { code, issues }`; other errors pass through.

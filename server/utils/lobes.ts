@@ -4,7 +4,8 @@ import { readFile, writeFile } from 'node:fs/promises'
 import { join } from 'node:path'
 import { and, desc, eq, inArray } from 'drizzle-orm'
 import type { Job, Lobe } from '../db/schema'
-import { summarise, type MassProperties, type Vec3 } from '#shared/geometry'
+import { summarise } from '#shared/geometry'
+import type { MassProperties, Vec3 } from '#shared/geometry'
 import { ALGORITHM_VERSION } from '#shared/utils/version'
 
 /** Evaluation points for surface fields (faces of a simplified copy; the field is the full polyhedron's). */

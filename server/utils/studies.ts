@@ -3,9 +3,8 @@ import { and, desc, eq, inArray } from 'drizzle-orm'
 import type { Lobe, Study } from '../db/schema'
 import type { StudyInput } from '#shared/types/studies'
 import { AU_M } from '#shared/types/studies'
-import type { MassProperties } from '#shared/geometry'
-import { CONTACT_ALGORITHM_VERSION } from '#shared/geometry/contactStudy'
-import { summariseSpread, type SpreadSample } from '#shared/geometry/spread'
+import { CONTACT_ALGORITHM_VERSION, summariseSpread } from '#shared/geometry'
+import type { MassProperties, SpreadSample } from '#shared/geometry'
 import { ALGORITHM_VERSION } from '#shared/utils/version'
 
 export const STUDY_ALGORITHM_VERSION = `${ALGORITHM_VERSION}; ${CONTACT_ALGORITHM_VERSION}`

@@ -3,7 +3,7 @@ import { existsSync } from 'node:fs'
 import { availableParallelism } from 'node:os'
 import { join, resolve } from 'node:path'
 import { Worker } from 'node:worker_threads'
-import { GeometryError } from '#shared/geometry/types'
+import { GeometryError } from '#shared/geometry'
 
 type Progress = (fraction: number, stage: string) => void
 

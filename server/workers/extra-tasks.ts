@@ -1,9 +1,6 @@
 import { readFile } from 'node:fs/promises'
-import type { TriMesh, Vec3 } from '../../shared/geometry'
-import { runContactStudy, type ContactStudyInput } from '../../shared/geometry/contactStudy'
-import { ContactBvhCache } from '../../shared/geometry/contact'
-import { splitAtNeck } from '../../shared/geometry/split'
-import { createSpreadContext, runSpreadSample, type SpreadContext } from '../../shared/geometry/spread'
+import { ContactBvhCache, createSpreadContext, runContactStudy, runSpreadSample, splitAtNeck } from '#shared/geometry'
+import type { ContactStudyInput, SpreadContext, TriMesh, Vec3 } from '#shared/geometry'
 import { decodeAnalysisMesh, encodeAnalysisMesh } from '../../shared/utils/mesh-binary'
 import { displayBytes, writeAtomic } from './worker-io'
 

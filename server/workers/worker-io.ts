@@ -1,7 +1,7 @@
 import { rename, writeFile } from 'node:fs/promises'
 import { MeshoptSimplifier } from 'meshoptimizer'
-import type { TriMesh, Vec3 } from '../../shared/geometry'
-import { compactVertices } from '../../shared/geometry/compact'
+import { compactVertices } from '#shared/geometry'
+import type { TriMesh, Vec3 } from '#shared/geometry'
 import { encodeDisplayMesh } from '../../shared/utils/mesh-binary'
 
 /** Writes through a temporary file and one rename, so readers never see a half-written file. */

@@ -37,3 +37,6 @@ export class GeometryError extends Error {
 
 /** How messages number the faces of an uploaded file (see `TriMesh.sourceFace`). */
 export const FILE_FACE_NUMBERING = 'faces are numbered from 0 in file order: the first face line or face element is face 0'
+
+/** How many faces or vertices an error message or a report lists at most. */
+export const MAX_LISTED = 5

@@ -5,11 +5,11 @@
  * runs its first few thousand faces per kernel in the interpreter and waits for the optimising
  * compiler (about 0.1 s more on a million-face mesh; see `npm run bench`).
  */
-import { icosphere } from './generate'
-import { massProperties } from './mass'
-import { readMesh } from './readers'
-import { validateMesh } from './validate'
-import { writePly } from './writers'
+import { readMesh } from './io/read'
+import { writePly } from './io/writers'
+import { massProperties } from './mass/mass'
+import { icosphere } from './mesh/generate'
+import { validateMesh } from './validate/validate'
 
 /** `rounds` small spheres (20 480 faces each); about 0.4 s for the default 3 on a 2-core machine. */
 export function warmPipeline(rounds = 3): void {

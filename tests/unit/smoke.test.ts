@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest'
-import { GeometryError } from '#shared/geometry/types'
+import { GeometryError } from '#shared/geometry'
 
 describe('GeometryError', () => {
   it('carries a code and issues', () => {

@@ -1,7 +1,8 @@
 import { eq } from 'drizzle-orm'
 import { idParamSchema } from '#shared/types/account'
 import { lobeUpdateSchema } from '#shared/types/lobes'
-import { withDensity, withReferenceRadius, type MassProperties } from '#shared/geometry'
+import { withDensity, withReferenceRadius } from '#shared/geometry'
+import type { MassProperties } from '#shared/geometry'
 
 /**
  * Rename a lobe, or change its density, reference radius or spin (owner or admin). Mass-dependent

@@ -1,9 +1,6 @@
 import { describe, expect, it } from 'vitest'
-import { boxMesh, ellipsoidMesh, icosphere, perturbedEllipsoid, transformMesh } from '#shared/geometry/generate'
-import { ContactBvhCache, firstContact, meshDistance, triangleTriangleDistance, triangleTriangleTOI } from '#shared/geometry/contact'
-import { matVec, quatFromAxisAngle, quatMultiply, quatNormalize, quatToMat3 } from '#shared/geometry/quat'
-import { createRng } from '#shared/geometry/rng'
-import type { Quat, Vec3 } from '#shared/geometry/types'
+import { boxMesh, ContactBvhCache, createRng, ellipsoidMesh, firstContact, icosphere, matVec, meshDistance, perturbedEllipsoid, quatFromAxisAngle, quatMultiply, quatNormalize, quatToMat3, transformMesh, triangleTriangleDistance, triangleTriangleTOI } from '#shared/geometry'
+import type { Quat, Vec3 } from '#shared/geometry'
 
 const O: Vec3 = [0, 0, 0]
 

@@ -1,7 +1,6 @@
 import { describe, expect, it } from 'vitest'
-import { contactKinematics } from '#shared/geometry/kinematics'
-import { pathwayScreen } from '#shared/geometry/screen'
-import type { Vec3 } from '#shared/geometry/types'
+import { contactKinematics, pathwayScreen } from '#shared/geometry'
+import type { Vec3 } from '#shared/geometry'
 
 // Worked example (computed by hand, SCIENCE.md §5 formulas; G = 6.67430e-11, CODATA 2018):
 // m_A = 4e12 kg, m_B = 1e12 kg → GM = 6.6743e-11 × 5e12 = 333.715 m³ s⁻².

@@ -1,10 +1,6 @@
 import { describe, expect, it } from 'vitest'
-import { icosphere, mergeMeshes } from '#shared/geometry/generate'
-import { overlapAndUnion } from '#shared/geometry/booleans'
-import { massProperties } from '#shared/geometry/mass'
-import { breakupSpinPeriod, mergedBody, minimumDensityForPeriod } from '#shared/geometry/merged'
-import type { Mat3, TriMesh, Vec3 } from '#shared/geometry/types'
-import type { MassModel, MergedInput } from '#shared/geometry/merged'
+import { breakupSpinPeriod, icosphere, massProperties, mergedBody, mergeMeshes, minimumDensityForPeriod, overlapAndUnion } from '#shared/geometry'
+import type { MassModel, Mat3, MergedInput, TriMesh, Vec3 } from '#shared/geometry'
 
 const G = 6.67430e-11
 

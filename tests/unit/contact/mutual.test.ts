@@ -1,11 +1,6 @@
 import { describe, expect, it } from 'vitest'
-import { boxMesh, icosphere, perturbedEllipsoid } from '#shared/geometry/generate'
-import { massProperties } from '#shared/geometry/mass'
-import { potential, preparePolyhedron } from '#shared/geometry/gravity'
-import { firstContact, applyPose, meshInContactFrame } from '#shared/geometry/contact'
-import { mutualPotential, volumeQuadrature } from '#shared/geometry/mutual'
-import type { Pose } from '#shared/geometry/contact'
-import type { Vec3 } from '#shared/geometry/types'
+import { applyPose, boxMesh, firstContact, icosphere, massProperties, meshInContactFrame, mutualPotential, perturbedEllipsoid, potential, preparePolyhedron, volumeQuadrature } from '#shared/geometry'
+import type { Pose, Vec3 } from '#shared/geometry'
 
 const O: Vec3 = [0, 0, 0]
 const ID: Pose = { quaternion: [1, 0, 0, 0], translation: [0, 0, 0] }

@@ -1,10 +1,6 @@
 import { describe, expect, it } from 'vitest'
-import { icosphere } from '#shared/geometry/generate'
-import { firstContact, meshInContactFrame } from '#shared/geometry/contact'
-import { neckAtDepth, neckSweep, sectionComponent } from '#shared/geometry/neck'
-import { manifoldVolume, overlapAndUnion } from '#shared/geometry/booleans'
-import { splitAtNeck } from '#shared/geometry/split'
-import type { Vec3 } from '#shared/geometry/types'
+import { firstContact, icosphere, manifoldVolume, meshInContactFrame, neckAtDepth, neckSweep, overlapAndUnion, sectionComponent, splitAtNeck } from '#shared/geometry'
+import type { Vec3 } from '#shared/geometry'
 
 const O: Vec3 = [0, 0, 0]
 

@@ -1,11 +1,6 @@
 import { describe, expect, it } from 'vitest'
-import { icosphere, perturbedEllipsoid } from '#shared/geometry/generate'
-import { runContactStudy } from '#shared/geometry/contactStudy'
-import { massProperties } from '#shared/geometry/mass'
-import { createSpreadContext, runSpreadSample, sampleCone, summariseSpread } from '#shared/geometry/spread'
-import { quatFromAxisAngle } from '#shared/geometry/quat'
-import { createRng } from '#shared/geometry/rng'
-import type { SpreadSpec } from '#shared/geometry/spread'
+import { createRng, createSpreadContext, icosphere, massProperties, perturbedEllipsoid, quatFromAxisAngle, runContactStudy, runSpreadSample, sampleCone, summariseSpread } from '#shared/geometry'
+import type { SpreadSpec } from '#shared/geometry'
 
 const G = 6.67430e-11
 

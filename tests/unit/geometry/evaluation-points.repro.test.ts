@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest'
-import { evaluationPoints, perturbedEllipsoid, preparePolyhedron, surfaceFieldChunk } from '../../../shared/geometry'
+import { evaluationPoints, perturbedEllipsoid, preparePolyhedron, surfaceFieldChunk } from '#shared/geometry'
 
 // Repro: the surface slope of a smooth lobe came out up to 73° (true maximum ≈ 10°) because the
 // field was evaluated with the normals of a meshoptimizer-simplified copy. The points now sit on

@@ -1,8 +1,5 @@
 import { describe, expect, it } from 'vitest'
-import { boxMesh, ellipsoidMesh, icosphere, mergeMeshes, perturbedEllipsoid, transformMesh, twoSphereBody } from '../../../shared/geometry/generate'
-import { validateMesh } from '../../../shared/geometry/validate'
-import { massProperties } from '../../../shared/geometry/mass'
-import { GeometryError } from '../../../shared/geometry/types'
+import { boxMesh, ellipsoidMesh, GeometryError, icosphere, massProperties, mergeMeshes, perturbedEllipsoid, transformMesh, twoSphereBody, validateMesh } from '#shared/geometry'
 import { axisAngle, close } from './helpers'
 
 describe('generators', () => {

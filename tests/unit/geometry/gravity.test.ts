@@ -1,7 +1,5 @@
 import { describe, expect, it } from 'vitest'
-import { boxMesh, ellipsoidMesh, icosphere } from '../../../shared/geometry/generate'
-import { G, massProperties } from '../../../shared/geometry/mass'
-import { acceleration, evaluationPoints, potential, preparePolyhedron, solidAngleSum, summarise, surfaceEscapeSpeed, surfaceFieldChunk, surfaceFieldWithEscape } from '../../../shared/geometry/gravity'
+import { acceleration, boxMesh, ellipsoidMesh, evaluationPoints, G, icosphere, massProperties, potential, preparePolyhedron, solidAngleSum, summarise, surfaceEscapeSpeed, surfaceFieldChunk, surfaceFieldWithEscape } from '#shared/geometry'
 import { close, closeVec, ellipsoidPotential } from './helpers'
 
 describe('polyhedral gravity (Werner & Scheeres 1997)', () => {

@@ -1,6 +1,6 @@
 /** Test helpers: tolerant comparisons, rotations, closed-form references. */
 import { expect } from 'vitest'
-import type { Mat3, TriMesh, Vec3 } from '../../../shared/geometry/types'
+import type { Mat3, TriMesh, Vec3 } from '#shared/geometry'
 
 export function close(actual: number, expected: number, rtol: number, atol = 0): void {
   const tol = atol + rtol * Math.abs(expected)

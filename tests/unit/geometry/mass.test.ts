@@ -1,10 +1,7 @@
 import { describe, expect, it } from 'vitest'
 import fc from 'fast-check'
-import { boxMesh, ellipsoidMesh, icosphere, mergeMeshes, perturbedEllipsoid, seededRandom, transformMesh } from '../../../shared/geometry/generate'
-import { G, massProperties, withDensity, withReferenceRadius } from '../../../shared/geometry/mass'
-import { solidHarmonicIntegrals, harmonicsFromIntegrals } from '../../../shared/geometry/harmonics'
-import { validateMesh } from '../../../shared/geometry/validate'
-import type { TriMesh, Vec3 } from '../../../shared/geometry/types'
+import { boxMesh, ellipsoidMesh, G, harmonicsFromIntegrals, icosphere, massProperties, mergeMeshes, perturbedEllipsoid, seededRandom, solidHarmonicIntegrals, transformMesh, validateMesh, withDensity, withReferenceRadius } from '#shared/geometry'
+import type { TriMesh, Vec3 } from '#shared/geometry'
 import { axisAngle, close, closeMat, closeVec, relabel } from './helpers'
 
 function tetra(p: Vec3[]): TriMesh {

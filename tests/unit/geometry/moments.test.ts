@@ -1,7 +1,6 @@
 import { describe, expect, it } from 'vitest'
-import { boxMesh, transformMesh } from '../../../shared/geometry/generate'
-import { MOMENT_MONOMIALS, polyhedronMoments } from '../../../shared/geometry/moments'
-import type { TriMesh, Vec3 } from '../../../shared/geometry/types'
+import { boxMesh, MOMENT_MONOMIALS, polyhedronMoments, transformMesh } from '#shared/geometry'
+import type { TriMesh, Vec3 } from '#shared/geometry'
 import { close } from './helpers'
 
 const fact = (n: number): number => (n <= 1 ? 1 : n * fact(n - 1))

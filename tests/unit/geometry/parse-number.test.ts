@@ -5,7 +5,7 @@
  */
 import { describe, expect, it } from 'vitest'
 import fc from 'fast-check'
-import { cursor, parseNumber } from '../../../shared/geometry/readers'
+import { cursor, parseNumber } from '#shared/geometry/io/scan'
 
 const enc = (s: string) => new TextEncoder().encode(s)
 /** Parse `s` followed by a separator, check the token end, and compare with Number(s) bit for bit. */

@@ -1,12 +1,7 @@
 import { describe, expect, it } from 'vitest'
 import { OBJLoader } from 'three/examples/jsm/loaders/OBJLoader.js'
 import { PLYLoader } from 'three/examples/jsm/loaders/PLYLoader.js'
-import { boxMesh, icosphere, perturbedEllipsoid, seededRandom } from '../../../shared/geometry/generate'
-import { writeObj, writePly } from '../../../shared/geometry/writers'
-import { readMesh } from '../../../shared/geometry/readers'
-import { validateMesh } from '../../../shared/geometry/validate'
-import { massProperties } from '../../../shared/geometry/mass'
-import { FILE_FACE_NUMBERING, GeometryError } from '../../../shared/geometry/types'
+import { boxMesh, FILE_FACE_NUMBERING, GeometryError, icosphere, massProperties, perturbedEllipsoid, readMesh, seededRandom, validateMesh, writeObj, writePly } from '#shared/geometry'
 import { close, closeMat, closeVec } from './helpers'
 
 const enc = (s: string) => new TextEncoder().encode(s)

@@ -1,7 +1,5 @@
 import { describe, expect, it } from 'vitest'
-import { splitMeshByPlane } from '../../../shared/geometry/booleans'
-import { validateMesh } from '../../../shared/geometry/validate'
-import { twoSphereBody } from '../../../shared/geometry/generate'
+import { splitMeshByPlane, twoSphereBody, validateMesh } from '#shared/geometry'
 
 // Repro: a cutting plane through a ring of mesh vertices left float32 near-duplicate vertices and a
 // zero-area needle face on the cut, so the parts failed upload validation ('degenerate-face':

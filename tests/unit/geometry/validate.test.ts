@@ -1,9 +1,6 @@
 import { describe, expect, it } from 'vitest'
-import { boxMesh, icosphere, mergeMeshes, seededRandom } from '../../../shared/geometry/generate'
-import { closedOrientedManifold, faceComponents, validateMesh } from '../../../shared/geometry/validate'
-import { massProperties } from '../../../shared/geometry/mass'
-import { GeometryError } from '../../../shared/geometry/types'
-import type { TriMesh } from '../../../shared/geometry/types'
+import { boxMesh, closedOrientedManifold, faceComponents, GeometryError, icosphere, massProperties, mergeMeshes, seededRandom, validateMesh } from '#shared/geometry'
+import type { TriMesh } from '#shared/geometry'
 import { close } from './helpers'
 
 const err = (m: TriMesh): GeometryError => {

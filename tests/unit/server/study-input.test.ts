@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest'
 import { defaultSpreadDensityRange, studyInputSchema } from '#shared/types/studies'
-import { createRng } from '#shared/geometry/rng'
+import { createRng } from '#shared/geometry'
 
 // The pathway screen (Kozai–Lidov timescale, J2 precession, Hill radius: SCIENCE.md §7) is defined
 // for a bound mutual orbit only: a screen asked for with any other orbit is refused, not ignored.

@@ -1,8 +1,5 @@
 import { describe, expect, it } from 'vitest'
-import { icosphere } from '#shared/geometry/generate'
-import { massProperties } from '#shared/geometry/mass'
-import { mergedBody } from '#shared/geometry/merged'
-import { runContactStudy } from '#shared/geometry/contactStudy'
+import { icosphere, massProperties, mergedBody, runContactStudy } from '#shared/geometry'
 import { studyInputSchema } from '#shared/types/studies'
 import { neckTensionCaution, studyInputRows, studySpreadNote } from '../../../utils/studies'
 

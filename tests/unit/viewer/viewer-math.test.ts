@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest'
 import { Quaternion, Vector3 } from 'three'
 import { drawnPoseB, fieldRange, niceLength, placeDisplayMesh, rotateByQuat, upFor, viridis, type Q4, type V3, type ViewerStudy } from '../../../utils/viewer-math'
-import { seededRandom } from '#shared/geometry/generate'
+import { seededRandom } from '#shared/geometry'
 
 const hex = (h: string): V3 => [1, 3, 5].map(i => Number.parseInt(h.slice(i, i + 2), 16) / 255) as V3
 
