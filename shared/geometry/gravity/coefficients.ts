@@ -19,7 +19,7 @@
  */
 import type { Mat3, TriMesh, Vec3 } from '../types'
 import { GeometryError } from '../types'
-import { G } from '../mass'
+import { G } from '../mass/mass'
 import { factorial, harmonicCount, simplexHarmonicSums } from './solid-harmonics'
 
 export const DEFAULT_COEFFICIENT_DEGREE = 16

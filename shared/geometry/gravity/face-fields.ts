@@ -14,8 +14,8 @@
  *   - geopotentialHeight (U_eff,max − U_eff)/ḡ with ḡ the area-weighted mean of effectiveGravity.
  */
 import type { TriMesh, Vec3 } from '../types'
-import { G } from '../mass'
-import { preparePolyhedron, potentialAndAcceleration } from '../gravity'
+import { G } from '../mass/mass'
+import { preparePolyhedron, potentialAndAcceleration } from './polyhedron'
 import type { GravityTree, TreecodeScratch } from './treecode'
 import { treeLayerPotentials, treecodeScratch } from './treecode'
 

@@ -27,7 +27,7 @@
  */
 import type { TriMesh, Vec3 } from '../types'
 import { GeometryError } from '../types'
-import { G } from '../mass'
+import { G } from '../mass/mass'
 import { factorial, harmonicCount, irregularHarmonics, simplexHarmonicSums, translateMoments, translationScratch } from './solid-harmonics'
 
 export interface TreecodeOptions {

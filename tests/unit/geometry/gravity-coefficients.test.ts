@@ -1,9 +1,6 @@
 import { describe, expect, it } from 'vitest'
-import { ellipsoidMesh, perturbedEllipsoid, transformMesh } from '../../../shared/geometry/generate'
-import { massProperties } from '../../../shared/geometry/mass'
-import { potential, preparePolyhedron } from '../../../shared/geometry/gravity'
-import type { CoefficientFrame } from '../../../shared/geometry/gravity/coefficients'
-import { coefficientSums, coefficientsFromSums, degreeVariances, gravityCoefficients, kaulaNormalization, seriesPotential } from '../../../shared/geometry/gravity/coefficients'
+import { coefficientsFromSums, coefficientSums, degreeVariances, ellipsoidMesh, gravityCoefficients, kaulaNormalization, massProperties, perturbedEllipsoid, potential, preparePolyhedron, seriesPotential, transformMesh } from '#shared/geometry'
+import type { CoefficientFrame } from '#shared/geometry'
 import { close } from './helpers'
 import { ellipsoidCoefficient } from './gravity-references'
 

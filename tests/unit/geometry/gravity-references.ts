@@ -3,7 +3,7 @@
  * rectangular prism, exact gravity coefficients of a homogeneous ellipsoid from monomial moments,
  * and a finely gridded cube mesh.
  */
-import type { TriMesh } from '../../../shared/geometry/types'
+import type { TriMesh } from '#shared/geometry'
 
 /**
  * Potential U/(Gρ) (m²) of the homogeneous prism [x1,x2]×[y1,y2]×[z1,z2] at point p: the closed form of
