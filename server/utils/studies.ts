@@ -3,8 +3,8 @@ import { and, desc, eq, inArray } from 'drizzle-orm'
 import type { Lobe, Study } from '../db/schema'
 import type { StudyInput } from '#shared/types/studies'
 import { AU_M } from '#shared/types/studies'
-import { CONTACT_ALGORITHM_VERSION, summariseSpread } from '#shared/geometry'
-import type { MassProperties, SpreadSample } from '#shared/geometry'
+import { anyPerpendicular, CONTACT_ALGORITHM_VERSION, norm, normalize, rejectFrom, summariseSpread } from '#shared/geometry'
+import type { MassProperties, SpreadSample, Vec3 } from '#shared/geometry'
 import { ALGORITHM_VERSION } from '#shared/utils/version'
 
 export const STUDY_ALGORITHM_VERSION = `${ALGORITHM_VERSION}; ${CONTACT_ALGORITHM_VERSION}`
@@ -181,18 +181,15 @@ async function runSpreadChunks(study: Study, a: Lobe, b: Lobe, input: StudyInput
   return { ...summariseSpread(spec, samples), sampleValues: samples }
 }
 
-/** The default plane of relative motion: A's largest-moment axis made perpendicular to the line of centres. */
-export function defaultOrbitNormal(axisC: [number, number, number], direction: [number, number, number]): [number, number, number] {
-  const d = axisC[0] * direction[0] + axisC[1] * direction[1] + axisC[2] * direction[2]
-  let n: [number, number, number] = [axisC[0] - d * direction[0], axisC[1] - d * direction[1], axisC[2] - d * direction[2]]
-  if (Math.hypot(...n) < 1e-9) {
-    // The axis lies along the line: any perpendicular will do; pick the most perpendicular file axis.
-    const e: [number, number, number] = Math.abs(direction[0]) < 0.9 ? [1, 0, 0] : [0, 1, 0]
-    const k = e[0] * direction[0] + e[1] * direction[1] + e[2] * direction[2]
-    n = [e[0] - k * direction[0], e[1] - k * direction[1], e[2] - k * direction[2]]
-  }
-  const len = Math.hypot(...n)
-  return [n[0] / len, n[1] / len, n[2] / len]
+/**
+ * The default plane of relative motion: A's largest-moment axis made perpendicular to the (unit)
+ * line of centres. When that axis lies along the line (rejection shorter than 1e-9), any
+ * perpendicular will do: the core's `anyPerpendicular` rejects the first file axis whose component
+ * along the line is below 0.6 in magnitude (x, else y, else z).
+ */
+export function defaultOrbitNormal(axisC: Vec3, direction: Vec3): Vec3 {
+  const n = rejectFrom(axisC, direction)
+  return norm(n) < 1e-9 ? anyPerpendicular(direction) : normalize(n)
 }
 
 /** Stops a queued or running study; true when there was something to stop. */

@@ -1,5 +1,6 @@
 /**
- * Seeded pseudo-random numbers for reproducible sampling (spread studies, randomised tests).
+ * The core's one seeded pseudo-random generator, for reproducible sampling (spread studies,
+ * generated demo meshes, randomised tests).
  * Generator: sfc32 (Chris Doty-Humphrey's "small fast counting" generator, public domain), seeded
  * through splitmix32 so that the stream of sample `i` depends only on (seed, i): samples can be run
  * in any order and on any worker and still reproduce.
@@ -57,4 +58,12 @@ export function createRng(seed: number, stream = 0): Rng {
       return mean + std * r * Math.cos(2 * Math.PI * v)
     },
   }
+}
+
+/**
+ * Uniform numbers in [0, 1) from stream 0 of `createRng(seed)`: the same generator, for callers that
+ * need only uniform draws (mesh generators, randomised tests).
+ */
+export function seededRandom(seed: number): () => number {
+  return createRng(seed).next
 }

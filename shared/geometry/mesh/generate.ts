@@ -8,6 +8,7 @@
 import type { Mat3, Quat, TriMesh, Vec3 } from '../types'
 import { GeometryError } from '../types'
 import { quatToMat3 } from '../math/linalg'
+import { seededRandom } from '../math/rng'
 
 const PHI = (1 + Math.sqrt(5)) / 2
 
@@ -206,18 +207,6 @@ export function boxMesh(lx: number, ly: number, lz: number, center: Vec3 = [0, 0
     indices[k++] = a!; indices[k++] = c!; indices[k++] = d!
   }
   return { positions, indices }
-}
-
-/** mulberry32: small seeded PRNG, returns floats in [0, 1). */
-export function seededRandom(seed: number): () => number {
-  let s = seed >>> 0
-  return () => {
-    s = (s + 0x6d2b79f5) >>> 0
-    let t = s
-    t = Math.imul(t ^ (t >>> 15), t | 1)
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61)
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296
-  }
 }
 
 /**
