@@ -30,7 +30,7 @@ describe('demo contact study', () => {
     expect(study.status, study.error).toBe('done')
     const r = study.result
     // Bound orbit a = 30 km, e = 0.5: contact exists iff q = 15 km ≤ d ≤ Q = 45 km (two-body
-    // geometry, SCIENCE.md §5), and vis-viva at d gives v² = GM(2/d − 1/a) < escape speed².
+    // geometry, docs/contact-and-kinematics.md), and vis-viva at d gives v² = GM(2/d − 1/a) < escape speed².
     expect(r.contact.separation).toBeGreaterThan(15_000)
     expect(r.contact.separation).toBeLessThan(45_000)
     expect(r.contact.speed).toBeLessThan(r.contact.escapeSpeed)

@@ -135,7 +135,7 @@ describe('lobe uploads through the API', () => {
   it('warns when a spin makes loose material lift off, on the fraction of the surface the closed form gives', async () => {
     // Homogeneous sphere, spin axis through the centre: the normal component of g + centrifugal
     // is GM/R² − ω²R sin²θ, so material lifts off where sin²θ > q = GM/(ω²R³) = (P/P_crit)², with
-    // P_crit = √(3π/(Gρ)) (strengthless-sphere breakup period, SCIENCE.md §5 [derived]). That band
+    // P_crit = √(3π/(Gρ)) (strengthless-sphere breakup period, docs/contact-and-kinematics.md [derived]). That band
     // |cos θ| < √(1 − q) covers the area fraction √(1 − q) (sphere area is uniform in cos θ;
     // Archimedes' hat-box theorem, common practice, no source).
     const G = 6.6743e-11

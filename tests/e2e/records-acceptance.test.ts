@@ -161,7 +161,7 @@ describe('records acceptance: upload → study → attach → mail → review �
     const vInf = 0.5
     const study2 = await runStudy({ ...input1, title: 'Hyperbolic approach', orbit: { kind: 'hyperbolic', vInfinity: vInf } })
     const speed2: number = study2.result.contact.speed
-    // Same lobes, direction and contact distance d: vis-viva gives v² = v∞² + 2GM/d (SCIENCE.md §5),
+    // Same lobes, direction and contact distance d: vis-viva gives v² = v∞² + 2GM/d (docs/contact-and-kinematics.md),
     // so v₂² − v₁² = v∞² exactly up to rounding.
     expect(Math.abs(speed2 ** 2 - speed1 ** 2 - vInf ** 2) / speed2 ** 2).toBeLessThan(1e-9)
     const second = await as.analyst.post(`/api/objects/${recordId}/attachments`, { study: study2.id, quantities: ['contact.speed'] })

@@ -45,7 +45,7 @@ describe('upload → study → attach → review → export, through the public 
     expect(v('mass', 'lobe-a').value).toBe(a.properties.mass)
     expect(v('contact.speed', 'lobe-pair').provenance).toMatchObject({ study: { id: study.id }, lobeA: { sha256: a.sha256, sourceFileName: 'big.ply', densityKgM3: 1000 }, lobeB: { sha256: b.sha256 } })
     // Head-on parabolic approach: contact speed = √(2G(mA + mB)/d) at touching distance d (vis-viva,
-    // SCIENCE.md §5); with the attached masses and equivalent radii, d ≈ rA + rB for the near-spheres.
+    // docs/contact-and-kinematics.md); with the attached masses and equivalent radii, d ≈ rA + rB for the near-spheres.
     const d = v('equivalentRadius', 'lobe-a').value + v('equivalentRadius', 'lobe-b').value
     const visViva = Math.sqrt(2 * G * (v('mass', 'lobe-a').value + v('mass', 'lobe-b').value) / d)
     expect(v('contact.speed', 'lobe-pair').value / visViva).toBeCloseTo(1, 1)

@@ -22,7 +22,7 @@ describe('contact studies through the API', () => {
   })
   afterAll(() => server?.dispose())
 
-  it('runs a head-on parabolic approach of two spheres: contact speed equals the mutual escape speed (vis-viva, SCIENCE.md §5)', async () => {
+  it('runs a head-on parabolic approach of two spheres: contact speed equals the mutual escape speed (vis-viva, docs/contact-and-kinematics.md)', async () => {
     const res = await as.analyst.post('/api/studies', { lobeA: a.id, lobeB: b.id, direction: [1, 0, 0], orbit: { kind: 'parabolic' }, sweepSteps: 0 })
     expect(res.status, res.text).toBe(202)
     const done = await waitForStudy(as.viewer, res.json.id)
@@ -39,7 +39,7 @@ describe('contact studies through the API', () => {
     expect(c.impactAngleFromNormalDeg).toBeLessThan(1)
     expect(done.result.neck.area).toBe(0)
     expect(done.result.merged.massModel).toBe('conserve-mass')
-    // √(3π/(Gρ)) at the merged bulk density (SCIENCE.md §5).
+    // √(3π/(Gρ)) at the merged bulk density (docs/contact-and-kinematics.md).
     expect(done.result.merged.breakupSpinPeriod).toBeCloseTo(Math.sqrt(3 * Math.PI / (G * done.result.merged.density)), 6)
     expect(done.result.unionStored).toBe(true)
     // Head-on from rest with lobes synchronous with a non-rotating orbit: no angular momentum, so the
@@ -69,7 +69,7 @@ describe('contact studies through the API', () => {
     expect(spread.result.spread.samples).toBe(12)
     expect(spread.result.spread.sampleValues).toHaveLength(12)
     expect(spread.result.spread.sampleValues.map((s: { index: number }) => s.index)).toEqual([...Array(12).keys()])
-    // Common density ×4 → speeds ×2 (v ∝ √ρ at fixed geometry; SCIENCE.md §5 vis-viva).
+    // Common density ×4 → speeds ×2 (v ∝ √ρ at fixed geometry; docs/contact-and-kinematics.md vis-viva).
     expect(spread.result.spread.speed.min / nominal.result.contact.speed).toBeCloseTo(2, 9)
     expect(spread.result.spread.speed.max / nominal.result.contact.speed).toBeCloseTo(2, 9)
   })

@@ -86,7 +86,7 @@ describe('in a real browser: the study result page', () => {
     for (const label of ['Line of centres A → B', 'Orbit normal', 'Mutual orbit', 'Pericentre q', 'Spin of lobe A', 'Spin of lobe B', 'Orientation of B', 'Spread: approach cone half-angle', 'Spread: seed', 'Pathway screen']) expect(inputsText).toContain(label)
 
     // The separation period follows from the d shown beside it: d = first-contact separation − 40 m
-    // settling, P = 2π√(d³/(GM)) (Kepler's third law, SCIENCE.md §5), in hours with "h" in the unit column.
+    // settling, P = 2π√(d³/(GM)) (Kepler's third law, docs/contact-and-kinematics.md), in hours with "h" in the unit column.
     const result = (await (await page.request.get(`${server.url}/api/studies/${studyId}`)).json()).result
     const d = Number(await page.getByTestId('settled-separation').innerText())
     expect(d / (result.contact.separation - 40)).toBeCloseTo(1, 4)
@@ -121,7 +121,7 @@ describe('in a real browser: the study result page', () => {
   it('cautions beside the spread when the nominal value lies outside it', async () => {
     const page = await browser.context.newPage()
     const res = (await (await page.request.get(`${server.url}/api/studies/${offId}`)).json()).result
-    // v ∝ √ρ at fixed geometry (vis-viva, SCIENCE.md §5): at ≥ 1500 kg m⁻³ every sample beats the 800 kg m⁻³ run.
+    // v ∝ √ρ at fixed geometry (vis-viva, docs/contact-and-kinematics.md): at ≥ 1500 kg m⁻³ every sample beats the 800 kg m⁻³ run.
     expect(res.spread.speed.min).toBeGreaterThan(res.contact.speed)
     await page.goto(`${server.url}/studies/${offId}`)
     const note = await page.getByTestId('spread-speed-note').innerText()

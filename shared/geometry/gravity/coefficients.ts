@@ -2,10 +2,10 @@
  * Exterior gravity-field coefficients of a constant-density closed polyhedron to high degree, exact
  * for the polyhedron (up to rounding).
  *
- * Convention (SCIENCE.md §0): U = (GM/r)[1 + Σ_{l≥1} Σ_m (R/r)^l P_lm(sin φ)(C_lm cos mλ + S_lm sin mλ)],
+ * Convention (docs/conventions.md): U = (GM/r)[1 + Σ_{l≥1} Σ_m (R/r)^l P_lm(sin φ)(C_lm cos mλ + S_lm sin mλ)],
  * P_lm without the Condon–Shortley phase, φ latitude, λ longitude from +x towards +y, r from the
  * volume centroid, so that C_lm, S_lm = (2 − δ_m0)(l−m)!/(l+m)! (1/(M R^l)) ∫ r^l P_lm(sin φ){cos, sin}(mλ) dm
- * (Kaula 1966, Theory of Satellite Geodesy [pub, textbook]; SCIENCE.md §8). 4π (Kaula) normalisation:
+ * (Kaula 1966, Theory of Satellite Geodesy [pub, textbook]; docs/harmonics.md). 4π (Kaula) normalisation:
  * C̄_lm = C_lm/N_lm, N_lm = √[(2 − δ_m0)(2l+1)(l−m)!/(l+m)!].
  *
  * Method: r^l P_lm e^{imλ} = (l+m)! Υ_l^m (solid-harmonics.ts), and the volume integral over the

@@ -2,7 +2,7 @@
  * Surface fields at every face of a mesh (its face centroids), from the treecode, with the
  * conventions they depend on, and the sampled exact check of the treecode's error.
  *
- * Conventions (SCIENCE.md §0): U > 0 is the gravitational potential, g = ∇U. With a spin ω (rad s⁻¹,
+ * Conventions (docs/conventions.md): U > 0 is the gravitational potential, g = ∇U. With a spin ω (rad s⁻¹,
  * file-frame components) about an axis through the volume centroid, the centrifugal acceleration is
  * −ω × (ω × r) and the effective potential U + ½|ω × r|², r from the centroid.
  *   - gravitationalPotential U, gravity |g|, slopeNonRotatingDeg: gravity alone (non-rotating);

@@ -1,6 +1,6 @@
 /**
  * Exterior (and surface) gravity of a constant-density closed polyhedron, Werner & Scheeres 1997
- * (Celest. Mech. Dyn. Astron. 65, 313–344), SCIENCE.md §4:
+ * (Celest. Mech. Dyn. Astron. 65, 313–344), docs/polyhedral-gravity.md:
  *   U = (Gρ/2)[Σ_e L_e r_eᵀE_e r_e − Σ_f ω_f r_fᵀF_f r_f] > 0,   g = ∇U = −Gρ[Σ_e L_e E_e r_e − Σ_f ω_f F_f r_f],
  * r_e, r_f = vectors from the field point to a vertex of the edge / face. Units: m, kg m⁻³, m² s⁻², m s⁻².
  *

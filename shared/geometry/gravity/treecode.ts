@@ -2,7 +2,7 @@
  * Treecode for the gravity of a constant-density closed polyhedron: potential and acceleration at
  * many points in O(N log N) instead of the direct sum's O(N) per point.
  *
- * Method. By the divergence theorem (SCIENCE.md §8 [derived]) the field of a homogeneous body is
+ * Method. By the divergence theorem (docs/polyhedral-gravity.md [derived]) the field of a homogeneous body is
  *   U(r) = (Gρ/2) ∮ n̂′·(r′ − r)/|r′ − r| dS′ = (Gρ/2) [Φ₀(r) − r·Φ(r)],   g(r) = −Gρ Φ(r),
  *   Φ₀(r) = ∮ (n̂′·r′)/|r − r′| dS′,   Φ(r) = ∮ n̂′/|r − r′| dS′,
  * four Laplace single-layer potentials whose densities (n̂·r′ = the face plane's offset, and the three
@@ -23,7 +23,7 @@
  * report it from sampled exact (direct-sum) checks (`sampledErrors`).
  *
  * Frames and units: points are in the FILE frame (metres); internally everything is relative to
- * the volume centroid `origin`. U > 0 (m² s⁻²), g = ∇U (m s⁻²), SCIENCE.md §0.
+ * the volume centroid `origin`. U > 0 (m² s⁻²), g = ∇U (m s⁻²), docs/conventions.md.
  */
 import type { TriMesh, Vec3 } from '../types'
 import { GeometryError } from '../types'

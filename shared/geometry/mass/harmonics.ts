@@ -1,7 +1,7 @@
 /**
  * Exterior spherical-harmonic coefficients (degree ≤ 4) of a constant-density closed polyhedron.
  *
- * Convention (SCIENCE.md §0): U = (GM/r)[1 + Σ_l Σ_m (R/r)^l P_lm(sin φ)(C_lm cos mλ + S_lm sin mλ)],
+ * Convention (docs/conventions.md): U = (GM/r)[1 + Σ_l Σ_m (R/r)^l P_lm(sin φ)(C_lm cos mλ + S_lm sin mλ)],
  * P_lm without the Condon–Shortley phase, so
  *   C_lm, S_lm = (2 − δ_m0) (l−m)!/(l+m)! · (1/(M R^l)) ∫ ρ r^l P_lm(sin φ) {cos mλ, sin mλ} dV.
  * The solid harmonics r^l P_lm(sin φ){cos, sin}(mλ) are homogeneous polynomials of degree l in

@@ -1,6 +1,6 @@
 /**
  * Mass properties of a closed, consistently oriented (outward, CCW) triangle mesh of constant
- * density, by signed tetrahedra (SCIENCE.md §1; Mirtich 1996, Kallay 2006). SI units throughout:
+ * density, by signed tetrahedra (docs/mass-properties.md; Mirtich 1996, Kallay 2006). SI units throughout:
  * positions in metres, density kg m⁻³. Accumulation is in float64 relative to the bounding-box
  * centre (subtracted first) to limit cancellation on large coordinates.
  *

@@ -1,7 +1,7 @@
 /**
  * The merged body after two lobes join: mass properties of a TWO-DENSITY body (lobe A at ρ_A, the
  * part of B outside A at ρ_B), spin from the total angular momentum, breakup and separation periods
- * and a mean neck stress (SCIENCE.md §5–6).
+ * and a mean neck stress (docs/contact-and-kinematics.md, docs/neck-and-merged-body.md).
  *
  * Frames: contact frame (A's file axes, origin at A's centroid). Angular momenta are about the
  * system centre of mass; the merged body is assumed to spin about its own centroid, which differs

@@ -1,5 +1,5 @@
 /**
- * Two-body kinematics of two lobes at first contact (SCIENCE.md §5).
+ * Two-body kinematics of two lobes at first contact (docs/contact-and-kinematics.md).
  *
  * The lobes are treated as two point masses at centroid separation d (from `firstContact`) on a
  * Keplerian relative orbit: the path before contact is NOT integrated, there is no full-shape

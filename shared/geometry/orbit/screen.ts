@@ -1,5 +1,5 @@
 /**
- * Pathway screen for a close binary under the Sun's tide (SCIENCE.md §7). A SCREEN from classic
+ * Pathway screen for a close binary under the Sun's tide (docs/pathway-screen.md). A SCREEN from classic
  * published formulas — quadrupole, test-particle Kozai–Lidov from e0 ≈ 0, secular J2 precession
  * for an equatorial orbit — not an integration: it says whether a path toward contact is plausible,
  * not that it happens. It also says whether the present orbit's pericentre is already within

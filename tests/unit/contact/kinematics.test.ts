@@ -2,7 +2,7 @@ import { describe, expect, it } from 'vitest'
 import { contactKinematics, pathwayScreen } from '#shared/geometry'
 import type { Vec3 } from '#shared/geometry'
 
-// Worked example (computed by hand, SCIENCE.md §5 formulas; G = 6.67430e-11, CODATA 2018):
+// Worked example (computed by hand, docs/contact-and-kinematics.md formulas; G = 6.67430e-11, CODATA 2018):
 // m_A = 4e12 kg, m_B = 1e12 kg → GM = 6.6743e-11 × 5e12 = 333.715 m³ s⁻².
 // d = 2000 m: v_esc = √(2·333.715/2000) = √0.333715 = 0.577681 m/s.
 // Bound a = 4000 m, e = 0.6 (q = 1600 ≤ d ≤ Q = 6400):

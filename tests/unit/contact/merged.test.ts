@@ -6,14 +6,14 @@ const G = 6.67430e-11
 
 describe('merged body', () => {
   it('strengthless-sphere breakup period √(3π/(Gρ)) is 3.30 h at 1000 kg m⁻³', () => {
-    // SCIENCE.md §5 [derived]: √(3π/(6.6743e-11·1000)) = 11883 s = 3.3009 h.
+    // docs/contact-and-kinematics.md [derived]: √(3π/(6.6743e-11·1000)) = 11883 s = 3.3009 h.
     expect(breakupSpinPeriod(1000) / 3600).toBeCloseTo(3.3009, 4)
     // Inverse: the density whose breakup period is 3.3009 h is 1000 kg m⁻³.
     expect(3 * Math.PI / (G * breakupSpinPeriod(1000) ** 2)).toBeCloseTo(1000, 8)
   })
 
   it('two separated spheres: inertia by the parallel-axis theorem, spin from L, neck stress sign', () => {
-    // Parallel-axis theorem (Steiner), sphere I = 2MR²/5 (textbook closed forms, SCIENCE.md §1):
+    // Parallel-axis theorem (Steiner), sphere I = 2MR²/5 (textbook closed forms, docs/mass-properties.md):
     // about the joint centre of mass, I_yy = I_zz = Σ(2/5 m_i R_i² + m_i r_i²), I_xx = Σ 2/5 m_i R_i².
     const R1 = 1, R2 = 0.6, d = 2, rho = 2000
     const A = icosphere(4, R1)
@@ -27,7 +27,7 @@ describe('merged body', () => {
     const r1 = d * m2 / (m1 + m2), r2 = d * m1 / (m1 + m2)
     const Ixx = 0.4 * (m1 * R1 ** 2 + m2 * R2 ** 2)
     const Izz = Ixx + m1 * r1 ** 2 + m2 * r2 ** 2
-    // Level-4 icospheres: volume and moments low by ~2e-3 and ~4e-3 (SCIENCE.md §1 discretisation note).
+    // Level-4 icospheres: volume and moments low by ~2e-3 and ~4e-3 (docs/mass-properties.md discretisation note).
     expect(Math.abs(m.inertia[0][0] / Ixx - 1)).toBeLessThan(6e-3)
     expect(Math.abs(m.inertia[2][2] / Izz - 1)).toBeLessThan(6e-3)
     expect(Math.abs(m.mass / (m1 + m2) - 1)).toBeLessThan(3e-3)
@@ -35,10 +35,10 @@ describe('merged body', () => {
     expect(m.spinPeriod).toBeCloseTo(2 * Math.PI * m.inertia[2][2] / 3e6, 6)
     expect(m.relaxedSpinPeriod).toBeCloseTo(2 * Math.PI * m.principalMoments[2] / 3e6, 6)
     expect(m.tumbleAngleDeg).toBeLessThan(1e-6)
-    // Point-mass separation period 2π√(d³/(GM)) (Kepler's third law, SCIENCE.md §5), with the d it reports.
+    // Point-mass separation period 2π√(d³/(GM)) (Kepler's third law, docs/contact-and-kinematics.md), with the d it reports.
     expect(m.separation).toBe(d)
     expect(m.separationSpinPeriod / (2 * Math.PI * Math.sqrt(d ** 3 / (G * (pA.mass + pB.mass))))).toBeCloseTo(1, 12)
-    // Neck stress, SCIENCE.md §6: F_n = m_B(ω²r_B − G m_A/d²) over the area.
+    // Neck stress, docs/neck-and-merged-body.md: F_n = m_B(ω²r_B − G m_A/d²) over the area.
     expect(m.spinPeriod).not.toBeNull()
     const w = 2 * Math.PI / m.spinPeriod!
     const rB = d * pA.mass / (pA.mass + pB.mass)
@@ -69,7 +69,7 @@ describe('merged body', () => {
   // with the parallel-axis (Steiner) theorem the slab integrals are polynomials in u:
   //   m = πρ[R²u − u³/3], S = ∫u dm = πρ[R²u²/2 − u⁴/4],
   //   I_xx = (πρ/2)[R⁴u − 2R²u³/3 + u⁵/5],  ∫(u² + y²) dm = πρ[(R⁴u − 2R²u³/3 + u⁵/5)/4 + R²u³/3 − u⁵/5],
-  // evaluated between a and b. Full sphere (a = −R, b = R): m = 4πρR³/3, I = 2mR²/5 (SCIENCE.md §1).
+  // evaluated between a and b. Full sphere (a = −R, b = R): m = 4πρR³/3, I = 2mR²/5 (docs/mass-properties.md).
   // Sphere–sphere intersection plane x_i = (d² + R1² − R2²)/(2d) (Weisstein, MathWorld "Sphere-Sphere
   // Intersection"): B's points with x < x_i lie inside A, and A's points with x > x_i lie inside B, so
   // B∖A = (B ∩ {x > x_i}) − (A ∩ {x > x_i}).
@@ -96,7 +96,7 @@ describe('merged body', () => {
   }
 
   // Level-5 icospheres (20 480 faces) are inscribed: volume ~5e-4 low, second moments ~1e-3 low
-  // (SCIENCE.md §1 discretisation note); the lens is cut from the same polyhedra (manifold-3d, float32).
+  // (docs/mass-properties.md discretisation note); the lens is cut from the same polyhedra (manifold-3d, float32).
   const SUB = 5, TOL_M = 1.5e-3, TOL_I = 2.5e-3
   const R1 = 1000, R2 = 600
   const A = icosphere(SUB, R1), Bm = icosphere(SUB, R2)
@@ -131,7 +131,7 @@ describe('merged body', () => {
     // The uniform-density shortcut this replaces would put the centroid at d·V_B/(V_A + V_B):
     // make sure the test tells the two apart.
     expect(Math.abs(d * R2 ** 3 / (R1 ** 3 + R2 ** 3) - cf.X) / d).toBeGreaterThan(0.05)
-    // J2 and C22 from the principal moments (MacCullagh, SCIENCE.md §2) with R = volume-equivalent radius.
+    // J2 and C22 from the principal moments (MacCullagh, docs/harmonics.md) with R = volume-equivalent radius.
     const R = Math.cbrt(R1 ** 3 + R2 ** 3)
     expect(m.referenceRadius / R).toBeCloseTo(1, 3)
     // Prolate along x: A = I_xx, B = C = I_yy, so J2 = (C − A)/(2MR²) and C22 = (B − A)/(4MR²) = J2/2.
@@ -143,7 +143,7 @@ describe('merged body', () => {
     const rhoA = 1200, rhoB = 2600, d = 1400 // 200 m overlap
     const ov = await overlapAndUnion(A, Bm, { quaternion: [1, 0, 0, 0], translation: [d, 0, 0] }, [1, 0, 0], 0)
     const cf = closedForm(R1, R2, d, rhoA, rhoB)
-    // Lens volume against MathWorld "Sphere-Sphere Intersection" (SCIENCE.md §6).
+    // Lens volume against MathWorld "Sphere-Sphere Intersection" (docs/neck-and-merged-body.md).
     const VL = Math.PI * (R1 + R2 - d) ** 2 * (d * d + 2 * d * R2 - 3 * R2 * R2 + 2 * d * R1 + 6 * R1 * R2 - 3 * R1 * R1) / (12 * d)
     const keep = mergedBody(base(d, ov.intersection, rhoA, rhoB, 'keep-density'))
     expect(rel(keep.overlapVolume, VL)).toBeLessThan(1e-2) // the lens is a thin cut of the polyhedra
@@ -166,7 +166,7 @@ describe('merged body', () => {
     expect(cons.caveats).toMatch(/overlap counted in A/)
   })
 
-  it('equal densities: the same numbers as a homogeneous union mesh (signed tetrahedra, SCIENCE.md §1)', async () => {
+  it('equal densities: the same numbers as a homogeneous union mesh (signed tetrahedra, docs/mass-properties.md)', async () => {
     const rho = 1800
     // Touching: the two spheres as one two-component mesh.
     const d0 = R1 + R2

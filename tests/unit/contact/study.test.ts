@@ -15,7 +15,7 @@ describe('runContactStudy', () => {
     }, { onProgress: (_f, s) => stages.push(s) })
     if (!('speedFullShape' in r.contact)) throw new Error('expected contact')
     const c = r.contact
-    // Vis-viva at d = R1 + R2 − sagitta (parabolic: v = v_esc = √(2GM/d), SCIENCE.md §5).
+    // Vis-viva at d = R1 + R2 − sagitta (parabolic: v = v_esc = √(2GM/d), docs/contact-and-kinematics.md).
     const M = 1000 * (4 / 3) * Math.PI * (R1 ** 3 + R2 ** 3)
     expect(c.speed / Math.sqrt(2 * G * M / c.separation)).toBeCloseTo(1, 2) // mesh masses ~1e-2 below the sphere's
     expect(c.speed).toBeCloseTo(c.escapeSpeed, 12)
@@ -39,7 +39,7 @@ describe('runContactStudy', () => {
     expect(r.neck!.equivalentRadius).toBeGreaterThan(0)
     expect(r.merged!.massModel).toBe('conserve-mass')
     // The separation period uses the centroid separation after the 60 m settling move, and says so:
-    // P = 2π√(d³/(GM)) with that d (Kepler's third law, SCIENCE.md §5).
+    // P = 2π√(d³/(GM)) with that d (Kepler's third law, docs/contact-and-kinematics.md).
     expect(r.merged!.separation).toBeCloseTo(c.separation - 60, 9)
     expect(r.merged!.separationSpinPeriod / (2 * Math.PI * Math.sqrt(r.merged!.separation ** 3 / (G * (pA.mass + pB.mass))))).toBeCloseTo(1, 9)
     expect(r.sweep).toHaveLength(3)

@@ -46,7 +46,7 @@ describe('gravity-field coefficients of a homogeneous polyhedron (exact per sign
     expect(errs[1]!).toBeLessThan(errs[0]! / 3)
   })
 
-  it('degree 2 equals MacCullagh from the inertia tensor to 1e-12 (SCIENCE.md §2), in the file frame with all five terms non-zero', () => {
+  it('degree 2 equals MacCullagh from the inertia tensor to 1e-12 (docs/harmonics.md), in the file frame with all five terms non-zero', () => {
     const mesh = transformMesh(perturbedEllipsoid(1500, 1000, 800, 3, 11, 0.2), [0.8, 0.2, -0.4, 0.4], [3000, -1000, 500])
     const mp = massProperties(mesh, { density: 1500 })
     const R = mp.equivalentRadius
@@ -72,7 +72,7 @@ describe('gravity-field coefficients of a homogeneous polyhedron (exact per sign
     close(-pr.C[2]![0]!, mp.J2, 1e-12)
     close(pr.C[2]![2]!, mp.C22, 1e-12)
     close(pr.Cbar[2]![0]!, pr.C[2]![0]! / Math.sqrt(5), 1e-14)
-    close(pr.Cbar[2]![2]!, pr.C[2]![2]! / Math.sqrt(5 / 12), 1e-14) // SCIENCE.md §0 [pub: SHTOOLS documentation]
+    close(pr.Cbar[2]![2]!, pr.C[2]![2]! / Math.sqrt(5 / 12), 1e-14) // docs/conventions.md [pub: SHTOOLS documentation]
     // the degree ≤ 4 moments route of mass properties (an independent implementation)
     for (let l = 3; l <= 4; l++) for (let m = 0; m <= l; m++) {
       close(pr.C[l]![m]!, mp.harmonics.C[l]![m]!, 1e-9, 1e-14)

@@ -10,7 +10,7 @@ import type { TriMesh } from '#shared/geometry'
  * Nagy, Papp & Benedek 2000 (J. Geodesy 74, 552–560), with X = x − p etc.:
  *   U/(Gρ) = |||XY ln(Z + r) + YZ ln(X + r) + ZX ln(Y + r) − X²/2 atan(YZ/(Xr)) − Y²/2 atan(ZX/(Yr)) − Z²/2 atan(XY/(Zr))|||
  * over the eight corners with alternating signs [formula from memory: it is checked in the tests
- * against the published cube value of SCIENCE.md §4 before being used]. Valid outside the prism
+ * against the published cube value of docs/polyhedral-gravity.md before being used]. Valid outside the prism
  * and away from its planes' extensions through the point (no zero coordinates at the corners).
  */
 export function prismPotential(x1: number, x2: number, y1: number, y2: number, z1: number, z2: number, p: [number, number, number]): number {

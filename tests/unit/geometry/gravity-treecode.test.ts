@@ -94,7 +94,7 @@ describe('solid harmonics (the multipole algebra of the treecode and the coeffic
 
 describe('treecode vs the direct Werner & Scheeres 1997 sum (default accuracy: U 1e-8, |g| 1e-7 relative)', () => {
   // The direct sum is the reference (Werner & Scheeres 1997, Celest. Mech. Dyn. Astron. 65, 313);
-  // the treecode is Barnes & Hut 1986 / Greengard & Rokhlin 1987 on the surface form of SCIENCE.md §8.
+  // the treecode is Barnes & Hut 1986 / Greengard & Rokhlin 1987 on the surface form of docs/polyhedral-gravity.md.
   const meshes: [string, TriMesh, number][] = [
     ['gridded cube (1 200 faces, leaves of 8)', gridCube(2000, 10), 8],
     ['20 480-face ellipsoid', ellipsoidMesh(1500, 1000, 800, 5), 32],
@@ -120,7 +120,7 @@ describe('treecode vs the direct Werner & Scheeres 1997 sum (default accuracy: U
     expect(loose.g).toBeGreaterThan(tight.g)
   })
   it('cube: the closed-form prism potential (Nagy, Papp & Benedek 2000, J. Geodesy 74) outside and at the surface', () => {
-    // the reference formula itself first: the published cube value of SCIENCE.md §4 at (1, 2, 3)
+    // the reference formula itself first: the published cube value of docs/polyhedral-gravity.md at (1, 2, 3)
     close(prismPotential(-0.5, 0.5, -0.5, 0.5, -0.5, 0.5, [1, 2, 3]), 0.26726619638669064, 1e-12)
     const L = 2000, rho = 2500
     const mesh = gridCube(L, 12)
@@ -130,7 +130,7 @@ describe('treecode vs the direct Werner & Scheeres 1997 sum (default accuracy: U
     treeFieldChunk(tree, rho, pts, 0, 5, U, g)
     for (let i = 0; i < 5; i++) close(U[i]! / (G * rho), prismPotential(-L / 2, L / 2, -L / 2, L / 2, -L / 2, L / 2, [pts[3 * i]!, pts[3 * i + 1]!, pts[3 * i + 2]!]), 1e-8)
   })
-  it('Laplacian by finite differences of g: −4πGρ inside, 0 outside (Poisson; SCIENCE.md §4)', () => {
+  it('Laplacian by finite differences of g: −4πGρ inside, 0 outside (Poisson; docs/polyhedral-gravity.md)', () => {
     const rho = 1800
     const mesh = ellipsoidMesh(1500, 1000, 800, 4)
     const tree = buildGravityTree(mesh, { leafSize: 8 })

@@ -10,7 +10,7 @@ describe('polyhedral gravity (Werner & Scheeres 1997)', () => {
     const g = acceleration(m, 1e6, [1, 2, 3]).map(x => (x * Gold) / G)
     closeVec(g, [-1.273782722739791e-6, -2.548008881415967e-6, -3.823026510474731e-6], 1e-11)
   })
-  it('Σω = 4π inside, 0 outside (SCIENCE.md §4)', () => {
+  it('Σω = 4π inside, 0 outside (docs/polyhedral-gravity.md)', () => {
     const m = preparePolyhedron(ellipsoidMesh(3, 2, 1, 3))
     for (const p of [[0, 0, 0], [2, 0.5, 0.2], [-1, 1, 0.5]] as const) close(solidAngleSum(m, [...p]), 4 * Math.PI, 1e-12)
     for (const p of [[4, 0, 0], [0, 0, 1.5], [10, 10, 10]] as const) close(solidAngleSum(m, [...p]), 0, 0, 1e-12)

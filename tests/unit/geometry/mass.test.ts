@@ -45,7 +45,7 @@ describe('massProperties: published worked example and closed forms', () => {
       const F = 20 * 4 ** n
       const V = (4 / 3) * Math.PI * R ** 3
       const errV = Math.abs(p.volume - V) / V
-      // inscribed icosphere: deficit ≈ 10/F (SCIENCE.md §1: ~2e-3 at 5120 faces, ~5e-4 at 20480)
+      // inscribed icosphere: deficit ≈ 10/F (docs/mass-properties.md: ~2e-3 at 5120 faces, ~5e-4 at 20480)
       expect(errV).toBeLessThan(12 / F)
       expect(errV).toBeLessThan(prevErr / 3.5)
       prevErr = errV
@@ -55,7 +55,7 @@ describe('massProperties: published worked example and closed forms', () => {
     }
   })
   it('ellipsoid (V = 4πabc/3, A = M(b²+c²)/5 ...) and Tee 2005 surface area 54.6901240998, at several resolutions', () => {
-    // Closed forms: textbook (SCIENCE.md §1); area: Legendre's formula, worked value in Tee 2005,
+    // Closed forms: textbook (docs/mass-properties.md); area: Legendre's formula, worked value in Tee 2005,
     // New Zealand J. Math. 34, 165–198. The mesh is an affine image of an inscribed icosphere, so its
     // errors are O(h²) ∝ 1/F (F faces): measured ≈ 11/F (volume), 18.5/F (moments), 6.1/F (area).
     // Tolerances k/F with k just above those constants, and the error must fall ≈4× per level.
@@ -97,7 +97,7 @@ describe('massProperties: published worked example and closed forms', () => {
       close(q.escapeSpeedPointMass, p.escapeSpeedPointMass / 2, 1e-14)
     }
   })
-  it('L of three unit cubes: products of inertia sign (SCIENCE.md §0 [derived])', () => {
+  it('L of three unit cubes: products of inertia sign (docs/conventions.md [derived])', () => {
     // one closed mesh: the L prism (L-shaped polygon extruded along z)
     const poly = [[0, 0], [2, 0], [2, 1], [1, 1], [1, 2], [0, 2]]
     const pos: number[] = []
@@ -219,7 +219,7 @@ describe('invariances', () => {
   })
   it('property (fast-check, seeded): uniform scaling s → V ∝ s³, I ∝ s⁵, J2 and C22 unchanged', () => {
     // dimensional analysis at fixed density (common practice, no source); J2 at the scaled
-    // volume-equivalent radius is dimensionless (MacCullagh, SCIENCE.md §2)
+    // volume-equivalent radius is dimensionless (MacCullagh, docs/harmonics.md)
     const small = perturbedEllipsoid(3, 2, 1, 3, 7, 0.2)
     const q0 = massProperties(small, { density: 1200 })
     fc.assert(fc.property(fc.double({ min: 1e-3, max: 1e4, noNaN: true }), (s) => {

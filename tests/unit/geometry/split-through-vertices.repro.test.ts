@@ -26,7 +26,7 @@ describe('splitMeshByPlane through a ring of vertices', () => {
         const a = 3 * I[f]!, b = 3 * I[f + 1]!, c = 3 * I[f + 2]!
         V6 += P[a]! * (P[b + 1]! * P[c + 2]! - P[b + 2]! * P[c + 1]!) - P[a + 1]! * (P[b]! * P[c + 2]! - P[b + 2]! * P[c]!) + P[a + 2]! * (P[b]! * P[c + 1]! - P[b + 1]! * P[c]!)
       }
-      // Signed-tetrahedra volume (SCIENCE.md §1).
+      // Signed-tetrahedra volume (docs/mass-properties.md).
       expect(V6 / 6 / V).toBeCloseTo(1, 5)
     }
   })

@@ -2,7 +2,7 @@ import { describe, expect, it } from 'vitest'
 import { defaultSpreadDensityRange, studyInputSchema } from '#shared/types/studies'
 import { createRng } from '#shared/geometry'
 
-// The pathway screen (Kozai–Lidov timescale, J2 precession, Hill radius: SCIENCE.md §7) is defined
+// The pathway screen (Kozai–Lidov timescale, J2 precession, Hill radius: docs/pathway-screen.md) is defined
 // for a bound mutual orbit only: a screen asked for with any other orbit is refused, not ignored.
 describe('study input: pathway screen needs a bound orbit', () => {
   const base = { lobeA: 1, lobeB: 2, direction: [1, 0, 0], screen: { inclinationDeg: 60, heliocentricSemiMajorAxisAu: 2.5 } }

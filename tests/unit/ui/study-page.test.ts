@@ -80,7 +80,7 @@ describe('study page: a caution beside a spread that does not cover the nominal 
   it('a spread over 2000–3000 kg m⁻³ around a 1000 kg m⁻³ run lies wholly above the nominal contact speed, and says so', async () => {
     const r = await runContactStudy({ ...base, spread: { seed: 4, samples: 6, densityA: { kind: 'uniform', min: 2000, max: 3000 }, densityB: { kind: 'uniform', min: 2000, max: 3000 }, coneHalfAngleDeg: 0, scale: { kind: 'fixed', value: 1 }, neck: false } })
     if (!('speed' in r.contact)) throw new Error('expected contact')
-    // Head-on parabolic: v = √(2GM/d) ∝ √ρ at fixed geometry (vis-viva, SCIENCE.md §5), so every sample is
+    // Head-on parabolic: v = √(2GM/d) ∝ √ρ at fixed geometry (vis-viva, docs/contact-and-kinematics.md), so every sample is
     // at least √2 × the nominal speed.
     expect(r.spread!.speed!.min / r.contact.speed).toBeGreaterThan(Math.SQRT2 - 1e-9)
     const note = studySpreadNote(r, 'speed')
@@ -103,7 +103,7 @@ describe('study page: a caution beside a spread that does not cover the nominal 
 describe('study page: neck in tension', () => {
   // Two touching spheres as the merged body's parts, spinning about z (a principal axis) with ω a
   // chosen multiple of the Keplerian rate at contact √(GM/d³): the lobes separate when ω² > GM/d³
-  // (SCIENCE.md §5), so the mean neck stress F_n = m_B(ω²r_B − Gm_A/d²) (SCIENCE.md §6) changes sign there.
+  // (docs/contact-and-kinematics.md), so the mean neck stress F_n = m_B(ω²r_B − Gm_A/d²) (docs/neck-and-merged-body.md) changes sign there.
   const R1 = 1000, R2 = 700, d = R1 + R2, rho = 1000
   const pA = massProperties(icosphere(3, R1), { density: rho }), pB = massProperties(icosphere(3, R2), { density: rho })
   const merged = (Lz: number) => mergedBody({
@@ -117,7 +117,7 @@ describe('study page: neck in tension', () => {
     const m = merged(1.1 * omegaK * Izz)
     expect(m.spinPeriod!).toBeLessThan(m.separationSpinPeriod)
     expect(m.neckStress!).toBeGreaterThan(0)
-    // σ̄ = m_B(ω²r_B − Gm_A/d²)/A with ω = 1.1 ω_K, r_B = d m_A/M (SCIENCE.md §6).
+    // σ̄ = m_B(ω²r_B − Gm_A/d²)/A with ω = 1.1 ω_K, r_B = d m_A/M (docs/neck-and-merged-body.md).
     const rB = d * pA.mass / (pA.mass + pB.mass)
     expect(m.neckStress! / (pB.mass * ((1.1 * omegaK) ** 2 * rB - G * pA.mass / d ** 2) / 1e5)).toBeCloseTo(1, 6)
     const text = neckTensionCaution(m)!
