@@ -8,14 +8,14 @@ import pkg from './package.json' with { type: 'json' }
 async function buildWorkers(outdir: string) {
   const { build } = await import('esbuild')
   await build({
-    entryPoints: { 'lobe-worker': resolve('server/workers/lobe-worker.ts') },
+    entryPoints: { 'task-thread': resolve('server/workers/task-thread.ts'), 'task-process': resolve('server/workers/task-process.ts') },
     outdir,
     outExtension: { '.js': '.mjs' },
     bundle: true,
     platform: 'node',
     format: 'esm',
     target: 'node20',
-    external: ['manifold-3d'],
+    external: ['manifold-3d', 'bullmq', 'ioredis', '@aws-sdk/client-s3'],
     banner: { js: 'import { createRequire as __isthmusRequire } from \'node:module\'; const require = __isthmusRequire(import.meta.url);' },
     logLevel: 'warning',
   })

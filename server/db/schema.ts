@@ -124,15 +124,32 @@ export const lobes = sqliteTable('lobes', {
   properties: text('properties', { mode: 'json' }).$type<Record<string, unknown>>().notNull(),
   /** Surface-field summary once its job is done. */
   surface: text('surface', { mode: 'json' }).$type<Record<string, unknown> | null>(),
+  /** The job whose result `surface` takes (jobs.id; shared by lobes with identical inputs); only it may write `surface`. */
+  surfaceJobId: integer('surface_job_id'),
   algorithmVersion: text('algorithm_version').notNull(),
   createdAt: createdAt(),
 }, t => [index('lobes_owner_idx').on(t.ownerId), index('lobes_sha_idx').on(t.sha256), index('lobes_created_idx').on(t.createdAt)])
 
-/** Background work with progress: surface fields of a lobe, and so on. */
+/**
+ * Background work with progress (server/utils/jobs.ts): surface fields of a lobe, a contact study,
+ * and so on. Identical jobs (kind, inputs hash, algorithm version) run once and are shared.
+ */
 export const jobs = sqliteTable('jobs', {
   id: integer('id').primaryKey({ autoIncrement: true }),
   kind: text('kind').notNull(),
+  /** Who asked first (null for work the server started itself). */
+  ownerId: integer('owner_id').references(() => users.id),
+  /** sha256 of everything that decides the result (mesh hashes, parameters). */
+  inputsHash: text('inputs_hash'),
+  algorithmVersion: text('algorithm_version'),
+  /** Times the job started running (a restart or lost worker runs it again, up to a bound). */
+  attempts: integer('attempts').notNull().default(0),
+  /** The lobe it was first made for (surface fields). */
   lobeId: integer('lobe_id').references(() => lobes.id, { onDelete: 'cascade' }),
+  /** The study it was first made for (contact studies). */
+  studyId: integer('study_id'),
+  /** The job's summary result, so an identical later job can reuse it. */
+  result: text('result', { mode: 'json' }).$type<Record<string, unknown> | null>(),
   status: text('status').$type<JobStatus>().notNull().default('queued'),
   progress: real('progress').notNull().default(0),
   stage: text('stage'),
@@ -142,7 +159,7 @@ export const jobs = sqliteTable('jobs', {
   createdAt: createdAt(),
   startedAt: integer('started_at', { mode: 'timestamp_ms' }),
   finishedAt: integer('finished_at', { mode: 'timestamp_ms' }),
-}, t => [index('jobs_lobe_idx').on(t.lobeId), index('jobs_status_idx').on(t.status)])
+}, t => [index('jobs_lobe_idx').on(t.lobeId), index('jobs_status_idx').on(t.status), index('jobs_inputs_idx').on(t.kind, t.inputsHash)])
 
 /** A contact study of two lobes for one approach. */
 export const studies = sqliteTable('studies', {
@@ -161,6 +178,8 @@ export const studies = sqliteTable('studies', {
   error: text('error'),
   result: text('result', { mode: 'json' }).$type<Record<string, unknown> | null>(),
   algorithmVersion: text('algorithm_version').notNull(),
+  /** The job computing it (jobs.id; shared by studies with the same cache key). */
+  jobId: integer('job_id'),
   createdAt: createdAt(),
   startedAt: integer('started_at', { mode: 'timestamp_ms' }),
   finishedAt: integer('finished_at', { mode: 'timestamp_ms' }),

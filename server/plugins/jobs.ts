@@ -1,6 +1,8 @@
-// Background work interrupted by a stop is marked failed (and surface fields restarted) once the
-// database is ready.
+// Once the database is ready: legacy rows settled, files nobody refers to swept, interrupted jobs
+// resumed, and (with Redis) this app process taking job coordinators from the job queue.
 export default defineNitroPlugin(() => {
-  onServerReady(recoverSurfaceJobs)
   onServerReady(recoverStudies)
+  onServerReady(sweepStorage)
+  onServerReady(resumeJobs)
+  onServerReady(async db => startJobCoordinator(db))
 })

@@ -51,6 +51,12 @@ export interface IsthmusConfig {
   workerNice: number
   /** First admin created on start outside demo mode, when both e-mail and password are set. */
   firstAdmin?: { email: string, password: string, name: string }
+  /** Redis for the distributed job engine (BullMQ); absent → the embedded engine in the app process. */
+  redisUrl?: string
+  /** How long a worker process may hold a task without renewing its lock before another takes it over, ms. */
+  taskLockMs: number
+  /** S3-compatible object store for meshes and derived files; absent → the folder `uploadsDir`. */
+  s3?: { endpoint: string, bucket: string, region: string, accessKeyId?: string, secretAccessKey?: string, prefix: string }
 }
 
 function int(name: string, fallback: number): number {
@@ -64,6 +70,18 @@ function int(name: string, fallback: number): number {
 /** Lenient reading for tuning knobs: anything not a positive number gives the fallback. */
 function tuning(name: string, fallback: number): number {
   return Number(process.env[name]) || fallback
+}
+
+/** S3_ENDPOINT and S3_BUCKET (both or neither), S3_REGION, S3_ACCESS_KEY_ID, S3_SECRET_ACCESS_KEY, S3_PREFIX. */
+function s3Settings(): IsthmusConfig['s3'] {
+  const env = process.env
+  if (!env.S3_ENDPOINT && !env.S3_BUCKET) return undefined
+  if (!env.S3_ENDPOINT || !env.S3_BUCKET) throw new Error('Set both S3_ENDPOINT and S3_BUCKET for the object store (or neither for the local folder)')
+  return {
+    endpoint: env.S3_ENDPOINT, bucket: env.S3_BUCKET, region: env.S3_REGION || 'us-east-1',
+    accessKeyId: env.S3_ACCESS_KEY_ID || env.AWS_ACCESS_KEY_ID, secretAccessKey: env.S3_SECRET_ACCESS_KEY || env.AWS_SECRET_ACCESS_KEY,
+    prefix: (env.S3_PREFIX ?? '').replace(/^\/+|\/+$/g, ''),
+  }
 }
 
 let cached: IsthmusConfig | undefined
@@ -104,6 +122,9 @@ export function useConfig(): IsthmusConfig {
     workersDir: process.env.ISTHMUS_WORKERS_DIR || undefined,
     workerNice: Number(process.env.ISTHMUS_WORKER_NICE ?? 10),
     firstAdmin: firstAdmin(),
+    redisUrl: process.env.REDIS_URL || undefined,
+    taskLockMs: Math.max(2, tuning('ISTHMUS_TASK_LOCK_SECONDS', 15)) * 1000,
+    s3: s3Settings(),
   }
   return cached
 }

@@ -1,15 +1,15 @@
 import { createHash } from 'node:crypto'
-import { readFile, writeFile } from 'node:fs/promises'
+import { writeFile } from 'node:fs/promises'
 import { join } from 'node:path'
 import { writePly } from '#shared/geometry'
 import { decodeAnalysisMesh } from '#shared/utils/mesh-binary'
 
 /**
- * Turns a derived analysis mesh (metres) into a stored lobe of its own (binary PLY file).
+ * Turns a derived analysis mesh (metres, mesh-store key) into a stored lobe of its own (binary PLY file).
  * `origin` (where the mesh came from) is kept in the lobe's report.
  */
-export async function lobeFromAnalysisMesh(analysisPath: string, opts: { ownerId: number, name: string, fileName: string, density: number, spinPeriodHours?: number, spinAxis?: [number, number, number], extraWarnings?: { code: string, message: string }[], origin?: Record<string, unknown> }) {
-  const mesh = decodeAnalysisMesh(new Uint8Array(await readFile(analysisPath)))
+export async function lobeFromAnalysisMesh(analysisKey: string, opts: { ownerId: number, name: string, fileName: string, density: number, spinPeriodHours?: number, spinAxis?: [number, number, number], extraWarnings?: { code: string, message: string }[], origin?: Record<string, unknown> }) {
+  const mesh = decodeAnalysisMesh(await (await useMeshStore()).read(analysisKey))
   const bytes = writePly(mesh, 'binary_little_endian', { double: true })
   const sha256 = createHash('sha256').update(bytes).digest('hex')
   const filePath = join(uploadPaths().tmp, `derived-${sha256}-${process.hrtime.bigint()}`)

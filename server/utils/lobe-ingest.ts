@@ -1,18 +1,8 @@
-import { rename, rm } from 'node:fs/promises'
-import { join } from 'node:path'
+import { rm } from 'node:fs/promises'
 import { asc, eq } from 'drizzle-orm'
 import { ALGORITHM_VERSION } from '#shared/utils/version'
 import { sameFileWarning, sizeCheckWarning } from '#shared/utils/lobe-checks'
-
-interface AnalyseResult {
-  format: 'obj' | 'ply'
-  sourceFaceCount: number
-  triangulatedPolygons: number
-  properties: Record<string, unknown>
-  report: Record<string, unknown> & { warnings: { code: string, message: string }[], vertexCount: number, faceCount: number }
-  timings: Record<string, number>
-  receivedAt: number
-}
+import type { AnalyseResult } from '../workers/mesh-tasks'
 
 export interface IngestInput {
   /** A file inside UPLOADS_DIR/tmp (renames across file systems fail). Moved or removed here. */
@@ -42,30 +32,33 @@ export interface IngestInput {
  * @throws 422 (GeometryError mapped by toHttpError) when the mesh cannot be used.
  */
 export async function ingestLobe(input: IngestInput) {
-  const paths = uploadPaths()
-  const derived = derivedMeshPaths(input.sha256, input.units)
+  const derived = derivedMeshKeys(input.sha256, input.units)
+  const store = await useMeshStore()
   let analysed: AnalyseResult
   const tw = performance.now()
   const dispatchedAt = Date.now()
+  let sourceKey: string | undefined
   try {
-    analysed = await useWorkerPool().run<AnalyseResult>('analyse', {
-      filePath: input.filePath, units: input.units, density: input.density, referenceRadius: input.referenceRadius,
-      analysisMeshPath: derived.analysis, maxFaces: 20_000_000,
-    }, { priority: 10 })
+    sourceKey = await stageLocalFile(input.filePath)
+    analysed = await runWorkerTask('analyse', {
+      sourceKey, units: input.units, density: input.density, referenceRadius: input.referenceRadius,
+      analysisKey: derived.analysis, maxFaces: 20_000_000,
+    }, { interactive: true, priority: 10 })
   }
   catch (error) {
     await rm(input.filePath, { force: true })
+    if (sourceKey) await store.remove(sourceKey)
     throw toHttpError(error)
   }
   const ext = analysed.format
-  const storedPath = join('meshes', `${input.sha256}.${ext}`)
+  const storedPath = `meshes/${input.sha256}.${ext}`
   const db = useDB()
   const workerMs = performance.now() - tw
   const td = performance.now()
   const existing = await db.select().from(schema.meshFiles).where(eq(schema.meshFiles.sha256, input.sha256)).get()
-  if (existing) await rm(input.filePath, { force: true })
+  if (existing) await store.remove(sourceKey)
   else {
-    await rename(input.filePath, join(paths.root, storedPath))
+    await store.move(sourceKey, storedPath)
     await db.insert(schema.meshFiles).values({ sha256: input.sha256, format: ext, byteSize: input.size, storedPath }).onConflictDoNothing()
   }
   const earlier = await db.select({ id: schema.lobes.id, name: schema.lobes.name, units: schema.lobes.units }).from(schema.lobes)
@@ -99,6 +92,6 @@ export async function ingestLobe(input: IngestInput) {
   }).returning()
   // The display copy is prepared in the background: the answer does not wait for it.
   void ensureDisplayMesh(input.sha256, input.units).catch(error => console.error('[isthmus] display mesh failed:', error))
-  const job = await startSurfaceJob(db, lobe!)
+  const job = await startSurfaceJob(db, lobe!, input.ownerId)
   return { lobe: lobe!, job, timings: { worker: workerMs, queued: analysed.receivedAt - dispatchedAt, store: performance.now() - td, ...analysed.timings } }
 }

@@ -1,8 +1,5 @@
 import { createHash } from 'node:crypto'
-import { existsSync } from 'node:fs'
-import { readFile, writeFile } from 'node:fs/promises'
-import { join } from 'node:path'
-import { and, desc, eq, inArray } from 'drizzle-orm'
+import { and, eq, inArray, sql } from 'drizzle-orm'
 import type { Job, Lobe } from '../db/schema'
 import { summarise } from '#shared/geometry'
 import type { MassProperties, Vec3 } from '#shared/geometry'
@@ -74,13 +71,14 @@ function share100(f: number): string {
   return `${p >= 10 ? p.toFixed(0) : p >= 0.1 ? p.toFixed(1) : p > 0 ? '< 0.1' : '0'} %`
 }
 
-function jobView(job: Job | undefined) {
+function gravityJobView(job: (Job & { queuePosition?: number }) | undefined) {
   if (!job) return null
-  return { id: job.id, status: job.status, progress: job.progress, stage: job.stage, error: job.error }
+  const v = jobView(job, job.queuePosition)
+  return { id: v.id, status: v.status, progress: v.progress, stage: v.stage, error: v.error, queuePosition: v.queuePosition }
 }
 
 /** The API's view of a lobe (names are a contract: see the issue and the OpenAPI document). */
-export function lobeView(lobe: Lobe, job?: Job, owner?: { id: number, name: string }) {
+export function lobeView(lobe: Lobe, job?: Job & { queuePosition?: number }, owner?: { id: number, name: string }) {
   const p = lobe.properties as unknown as MassProperties
   const surface = lobe.surface as unknown as SurfaceSummary | null
   return {
@@ -131,7 +129,7 @@ export function lobeView(lobe: Lobe, job?: Job, owner?: { id: number, name: stri
       surfaceEvaluation: surface?.evaluation ?? null,
       components: p.components ?? null,
       G: p.G,
-      gravityJob: jobView(job),
+      gravityJob: gravityJobView(job),
     },
     report: lobe.report,
     /** Cautions about the surface fields (e.g. 'surface-lift-off'); empty when there are none. */
@@ -141,70 +139,82 @@ export function lobeView(lobe: Lobe, job?: Job, owner?: { id: number, name: stri
 
 export type LobeView = ReturnType<typeof lobeView>
 
-/** Latest surface job per lobe. */
-export async function latestJobs(db: DB, lobeIds: number[]): Promise<Map<number, Job>> {
+/** The current surface job of each lobe (the one whose result its `surface` takes), with its queue position. */
+export async function latestJobs(db: DB, lobeIds: number[]): Promise<Map<number, Job & { queuePosition?: number }>> {
   if (!lobeIds.length) return new Map()
-  const rows = await db.select().from(schema.jobs).where(and(inArray(schema.jobs.lobeId, lobeIds), eq(schema.jobs.kind, 'surface-field'))).orderBy(desc(schema.jobs.id))
-  const map = new Map<number, Job>()
-  for (const r of rows) if (r.lobeId !== null && !map.has(r.lobeId)) map.set(r.lobeId, r)
-  return map
+  const rows = await db.select({ lobeId: schema.lobes.id, job: schema.jobs }).from(schema.lobes)
+    .innerJoin(schema.jobs, eq(schema.jobs.id, schema.lobes.surfaceJobId))
+    .where(inArray(schema.lobes.id, lobeIds))
+  const positions = rows.some(r => r.job.status === 'queued') ? await queuePositions(db) : new Map<number, number>()
+  return new Map(rows.map(r => [r.lobeId, { ...r.job, queuePosition: positions.get(r.job.id) }]))
 }
 
-const running = new Map<number, AbortController>()
-
-/** Queues the surface-field job of a lobe (cancelling an earlier one still running). */
-export async function startSurfaceJob(db: DB, lobe: Lobe): Promise<Job> {
-  for (const [jobId, ctl] of running) {
-    const j = await db.select({ lobeId: schema.jobs.lobeId }).from(schema.jobs).where(eq(schema.jobs.id, jobId)).get()
-    if (j?.lobeId === lobe.id) ctl.abort()
-  }
-  const [job] = await db.insert(schema.jobs).values({ kind: 'surface-field', lobeId: lobe.id, params: { points: fieldPointBudget() } }).returning()
-  void runSurfaceJob(db, lobe, job!)
-  return job!
+/** Everything that decides a lobe's surface fields: mesh, units, density, spin, point budget. */
+export function surfaceInputs(lobe: Pick<Lobe, 'sha256' | 'units' | 'density' | 'spinPeriodHours' | 'spinAxis'>) {
+  return { sha256: lobe.sha256, units: lobe.units, density: lobe.density, spinPeriodHours: lobe.spinPeriodHours, spinAxis: lobe.spinAxis, points: fieldPointBudget() }
 }
 
-async function runSurfaceJob(db: DB, lobe: Lobe, job: Job) {
-  const ctl = new AbortController()
-  running.set(job.id, ctl)
-  const pool = useWorkerPool()
-  const paths = derivedMeshPaths(lobe.sha256, lobe.units)
-  let lastWrite = 0
-  const setProgress = async (progress: number, stage: string, force = false) => {
-    const now = Date.now()
-    if (!force && now - lastWrite < 250) return
-    lastWrite = now
-    await db.update(schema.jobs).set({ progress, stage }).where(eq(schema.jobs.id, job.id))
+/**
+ * Gives a lobe its surface-field job: reuses an identical finished one (its summary at once), joins
+ * an identical queued or running one, or queues a new one. Only the job named in
+ * `lobes.surface_job_id` may write the lobe's `surface`, so an older job (e.g. before a density
+ * change) that finishes later writes nothing.
+ */
+export async function startSurfaceJob(db: DB, lobe: Lobe, ownerId?: number | null): Promise<Job> {
+  const inputsHash = resultKey(surfaceInputs(lobe))
+  const previous = lobe.surfaceJobId
+  const done = await reusableJob(db, 'surface-field', inputsHash, ALGORITHM_VERSION)
+  let job: Job
+  if (done?.result && await (await useMeshStore()).exists(derivedKey(String(done.result.fieldsFile)))) {
+    await db.update(schema.lobes).set({ surface: done.result, surfaceJobId: done.id }).where(eq(schema.lobes.id, lobe.id))
+    job = done
   }
-  try {
-    await db.update(schema.jobs).set({ status: 'running', startedAt: new Date(), stage: 'choosing evaluation points' }).where(eq(schema.jobs.id, job.id))
-    const props = lobe.properties as unknown as MassProperties
-    const ev = await pool.run<{ positions: Float64Array, indices: Uint32Array, points: Float64Array, normals: Float64Array, areas: Float64Array, sameAsMesh: boolean }>(
-      'field-prepare', { analysisMeshPath: paths.analysis, maxPoints: fieldPointBudget() }, { signal: ctl.signal })
+  else {
+    job = (await submitJob(db, { kind: 'surface-field', ownerId: ownerId ?? lobe.ownerId, inputsHash, algorithmVersion: ALGORITHM_VERSION, lobeId: lobe.id, params: { lobeId: lobe.id, ...surfaceInputs(lobe) } })).job
+    await db.update(schema.lobes).set({ surfaceJobId: job.id }).where(eq(schema.lobes.id, lobe.id))
+  }
+  // The job this lobe followed before: cancelled when no other lobe follows it now.
+  if (previous && previous !== job.id) {
+    const others = await db.select({ id: schema.lobes.id }).from(schema.lobes).where(eq(schema.lobes.surfaceJobId, previous)).get()
+    if (!others) await cancelJob(db, previous, 'superseded: the lobe changed')
+  }
+  return job
+}
+
+/** The surface-field job: evaluation points, then the field in chunks of ~0.1 s, then one summary. */
+export const surfaceFieldJob: JobKind = {
+  async run({ db, job, task, progress }) {
+    const p = job.params as unknown as ReturnType<typeof surfaceInputs> & { lobeId: number }
+    // The lobe it was made for, or (that one deleted) any lobe still following it.
+    const source = await db.select().from(schema.lobes).where(eq(schema.lobes.id, p.lobeId)).get()
+      ?? await db.select().from(schema.lobes).where(eq(schema.lobes.surfaceJobId, job.id)).get()
+    const props = source?.properties as unknown as MassProperties | undefined
+    const faceCount = source?.faceCount ?? 0
+    if (!source || !props) throw new Error('the lobe of this surface job no longer exists')
+    const analysisKey = derivedMeshKeys(p.sha256, p.units).analysis
+    const ev = await task('field-prepare', { analysisKey, maxPoints: p.points })
+    progress(0.05, 'surface field')
     const n = ev.points.length / 3
     let omega: Vec3 | null = null
     let axis: Vec3 | null = null
-    if (lobe.spinPeriodHours) {
-      const a = (lobe.spinAxis ?? props.principalAxes[2]) as Vec3
+    if (p.spinPeriodHours) {
+      const a = (p.spinAxis ?? props.principalAxes[2]) as Vec3
       const len = Math.hypot(...a)
       axis = [a[0] / len, a[1] / len, a[2] / len]
-      const w = (2 * Math.PI) / (lobe.spinPeriodHours * 3600)
+      const w = (2 * Math.PI) / (p.spinPeriodHours * 3600)
       omega = [axis[0] * w, axis[1] * w, axis[2] * w]
     }
-    // Chunks small enough that uploads waiting for a worker get one soon.
-    // About 5 M face·point kernels (~0.1 s) per chunk (at least one point each, at most 4096 chunks).
-    const chunks = Math.max(2, Math.min(4096, n, Math.ceil((n * lobe.faceCount) / 5e6)))
+    // Chunks of about 5 M face·point kernels (~0.1 s): another job gets a worker within one chunk.
+    const chunks = Math.max(2, Math.min(4096, n, Math.ceil((n * faceCount) / 5e6)))
     const per = Math.ceil(n / chunks)
     const done = new Float64Array(chunks)
     const results = await Promise.all(Array.from({ length: chunks }, (_, c) => {
       const s = c * per
       const e = Math.min(n, s + per)
-      return pool.run<{ gravity: Float64Array, slopeDeg: Float64Array, potential: Float64Array, escape: Float64Array }>('field-chunk', {
-        analysisMeshPath: paths.analysis, density: lobe.density, points: ev.points.slice(3 * s, 3 * e), normals: ev.normals.slice(3 * s, 3 * e), omega,
-      }, {
-        signal: ctl.signal,
+      return task('field-chunk', { analysisKey, density: p.density, points: ev.points.slice(3 * s, 3 * e), normals: ev.normals.slice(3 * s, 3 * e), omega }, {
         onProgress: (f) => {
           done[c] = f * (e - s)
-          void setProgress(0.05 + 0.93 * (done.reduce((a, b) => a + b, 0) / n), 'surface field')
+          progress(0.05 + 0.93 * (done.reduce((a, b) => a + b, 0) / n), 'surface field')
         },
       })
     }))
@@ -227,9 +237,8 @@ async function runSurfaceJob(db: DB, lobe: Lobe, job: Job) {
     const gMean = summarise(gravity, ev.areas).mean
     const height = new Float64Array(n)
     for (let i = 0; i < n; i++) height[i] = (uMax - potential[i]) / gMean
-    const fieldsFile = `fields-${lobe.id}-${job.id}.json`
-    await writeFile(join(uploadPaths().derived, fieldsFile), JSON.stringify({
-      lobeId: lobe.id,
+    const fieldsFile = `fields-${job.id}.json`
+    await (await useMeshStore()).write(derivedKey(fieldsFile), JSON.stringify({
       jobId: job.id,
       evaluation: ev.sameAsMesh ? 'mesh' : 'simplified',
       units: { gravity: 'm s^-2', slopeDeg: 'deg', geopotentialHeight: 'm', potential: 'm^2 s^-2', escapeSpeed: 'm s^-1', positions: 'm' },
@@ -242,49 +251,34 @@ async function runSurfaceJob(db: DB, lobe: Lobe, job: Job) {
       escapeSpeed: Array.from(escape),
     }))
     const surface: SurfaceSummary = {
-      evaluation: { surface: ev.sameAsMesh ? 'mesh' : 'simplified', points: n, meshFaces: lobe.faceCount },
+      evaluation: { surface: ev.sameAsMesh ? 'mesh' : 'simplified', points: n, meshFaces: faceCount },
       surfaceGravity: summarise(gravity, ev.areas),
       slopeDeg: summarise(slopeDeg, ev.areas),
       geopotentialHeight: summarise(height, ev.areas),
       escapeSpeedSurface: summarise(escape, ev.areas),
-      spin: omega ? { periodHours: lobe.spinPeriodHours!, axis: axis! } : null,
+      spin: omega ? { periodHours: p.spinPeriodHours!, axis: axis! } : null,
       liftOff: liftOffShare(slopeDeg, ev.areas),
       fieldsFile,
     }
-    await db.update(schema.lobes).set({ surface: surface as unknown as Record<string, unknown> }).where(eq(schema.lobes.id, lobe.id))
-    await db.update(schema.jobs).set({ status: 'done', progress: 1, stage: 'done', finishedAt: new Date() }).where(eq(schema.jobs.id, job.id))
-  }
-  catch (error) {
-    const cancelled = error instanceof TaskCancelled
-    await db.update(schema.jobs).set({ status: cancelled ? 'cancelled' : 'failed', error: cancelled ? null : (error as Error).message, finishedAt: new Date() })
-      .where(eq(schema.jobs.id, job.id)).catch(() => undefined)
-    if (!cancelled) console.error(`[isthmus] surface job ${job.id} failed:`, error)
-  }
-  finally {
-    running.delete(job.id)
-  }
+    // Only lobes that still follow this job take its result, and only while it is not cancelled.
+    await db.update(schema.lobes).set({ surface: surface as unknown as Record<string, unknown> })
+      .where(and(eq(schema.lobes.surfaceJobId, job.id), sql`exists (select 1 from jobs where jobs.id = ${job.id} and jobs.status = 'running')`))
+    return surface as unknown as Record<string, unknown>
+  },
 }
 
-/** Reads the per-face fields written by the latest finished surface job, or null. */
+/** Reads the per-face fields written by the lobe's finished surface job, or null. */
 export async function readFields(lobe: Lobe) {
   const surface = lobe.surface as unknown as SurfaceSummary | null
   if (!surface?.fieldsFile) return null
-  const path = join(uploadPaths().derived, surface.fieldsFile)
-  if (!existsSync(path)) return null
-  return JSON.parse(await readFile(path, 'utf8')) as Record<string, unknown>
+  const store = await useMeshStore()
+  const key = derivedKey(surface.fieldsFile)
+  if (!(await store.exists(key))) return null
+  const fields = JSON.parse(new TextDecoder().decode(await store.read(key))) as Record<string, unknown>
+  return { lobeId: lobe.id, ...fields }
 }
 
 /** Cache key of a derived result: content hashes, parameters and the algorithm version. */
 export function resultKey(parts: unknown): string {
   return createHash('sha256').update(JSON.stringify([ALGORITHM_VERSION, parts])).digest('hex')
-}
-
-/** A job that was running when the server stopped did not finish: say so, and start it again. */
-export async function recoverSurfaceJobs(db: DB) {
-  const stale = await db.select().from(schema.jobs).where(and(eq(schema.jobs.kind, 'surface-field'), inArray(schema.jobs.status, ['queued', 'running'])))
-  for (const job of stale) {
-    await db.update(schema.jobs).set({ status: 'failed', error: 'interrupted by a server restart', finishedAt: new Date() }).where(eq(schema.jobs.id, job.id))
-    const lobe = job.lobeId ? await db.select().from(schema.lobes).where(eq(schema.lobes.id, job.lobeId)).get() : undefined
-    if (lobe) await startSurfaceJob(db, lobe)
-  }
 }

@@ -19,7 +19,8 @@ export function serverReady(): Promise<void> {
       const port = await startLocalSmtp(db, config.localSmtpPort)
       console.info(`[isthmus] local mail drop listening on 127.0.0.1:${port}`)
     }
-    useWorkerPool().prestart()
+    // The embedded engine's threads start with the app; with Redis, worker processes run the tasks.
+    if (!config.redisUrl) useWorkerPool().prestart()
     await ensureFirstAdmin(db)
     // Work left behind by an earlier run is settled first, so the demo's own new jobs are not
     // mistaken for interrupted ones.

@@ -1,14 +1,43 @@
-import { rename, writeFile } from 'node:fs/promises'
 import { MeshoptSimplifier } from 'meshoptimizer'
-import { compactVertices } from '#shared/geometry'
-import type { TriMesh, Vec3 } from '#shared/geometry'
-import { encodeDisplayMesh } from '../../shared/utils/mesh-binary'
+import { compactVertices, preparePolyhedron } from '#shared/geometry'
+import type { PolyhedronModel, TriMesh, Vec3 } from '#shared/geometry'
+import { decodeAnalysisMesh, encodeDisplayMesh } from '../../shared/utils/mesh-binary'
+import { useMeshStore } from '../utils/mesh-store'
 
-/** Writes through a temporary file and one rename, so readers never see a half-written file. */
-export async function writeAtomic(path: string, bytes: Uint8Array) {
-  const tmp = `${path}.${process.pid}.${Math.random().toString(36).slice(2)}.tmp`
-  await writeFile(tmp, bytes)
-  await rename(tmp, path)
+/** Writes a whole file to the mesh store (readers never see a half-written one). */
+export async function storeBytes(key: string, bytes: Uint8Array | string) {
+  await (await useMeshStore()).write(key, bytes)
+}
+
+// Decoded meshes (and their polyhedron models, built on first use) kept while the worker lives,
+// by store key (keys name content: hash and units). A few entries, so that two jobs served
+// round-robin on one worker do not reload and re-prepare each other's meshes at every task.
+const CACHE_ENTRIES = 4
+const cache = new Map<string, { mesh: TriMesh, model?: PolyhedronModel }>()
+
+async function entry(key: string) {
+  let e = cache.get(key)
+  if (e) {
+    cache.delete(key)
+    cache.set(key, e)
+    return e
+  }
+  e = { mesh: decodeAnalysisMesh(await (await useMeshStore()).read(key)) }
+  if (cache.size >= CACHE_ENTRIES) cache.delete(cache.keys().next().value!)
+  cache.set(key, e)
+  return e
+}
+
+/** The validated analysis mesh (metres, float64) stored under `key`. */
+export async function loadAnalysisMesh(key: string): Promise<TriMesh> {
+  return (await entry(key)).mesh
+}
+
+/** The polyhedron model of the analysis mesh under `key` (prepared once per worker). */
+export async function loadModel(key: string): Promise<PolyhedronModel> {
+  const e = await entry(key)
+  e.model ??= preparePolyhedron(e.mesh)
+  return e.model
 }
 
 /**

@@ -1,9 +1,10 @@
-import { rm } from 'node:fs/promises'
-import { join } from 'node:path'
-import { eq, or, sql } from 'drizzle-orm'
+import { and, eq, or, sql } from 'drizzle-orm'
 import { idParamSchema } from '#shared/types/account'
 
-/** Delete a lobe (owner or admin); 409 while a study cites it. The file goes with its last lobe. */
+/**
+ * Delete a lobe (owner or admin); 409 while a study cites it. The stored file goes with its last
+ * lobe, derived files (analysis, display, fields) with the last lobe using them.
+ */
 export default defineEventHandler(async (event) => {
   const actor = await requireRole(event, 'analyst')
   const { id } = paramsAs(event, idParamSchema)
@@ -17,6 +18,9 @@ export default defineEventHandler(async (event) => {
   let file: typeof schema.meshFiles.$inferSelect | undefined
   try {
     file = await db.transaction(async (tx) => {
+      // A surface job shared with other lobes stays theirs (its row would go with this lobe's).
+      await tx.update(schema.jobs).set({ lobeId: sql`(select min(l.id) from lobes l where l.surface_job_id = ${schema.jobs.id} and l.id != ${id})` })
+        .where(and(eq(schema.jobs.lobeId, id), sql`exists (select 1 from lobes l where l.surface_job_id = ${schema.jobs.id} and l.id != ${id})`))
       await tx.delete(schema.lobes).where(eq(schema.lobes.id, id))
       await audit(event, { actorId: actor.id, action: 'lobe.deleted', subjectType: 'lobe', subjectId: id, detail: { sha256: lobe.sha256, name: lobe.name } }, tx)
       const others = await tx.select({ n: sql<number>`count(*)` }).from(schema.lobes).where(eq(schema.lobes.sha256, lobe.sha256)).get()
@@ -33,14 +37,6 @@ export default defineEventHandler(async (event) => {
     }
     throw error
   }
-  if (file) {
-    // the stored file and its derived meshes went with the last lobe that used them
-    await rm(join(uploadPaths().root, file.storedPath), { force: true })
-    for (const units of ['m', 'km'] as const) {
-      const d = derivedMeshPaths(lobe.sha256, units)
-      await rm(d.analysis, { force: true })
-      await rm(d.display, { force: true })
-    }
-  }
+  await deleteLobeFiles(db, lobe, file?.storedPath)
   return { ok: true }
 })

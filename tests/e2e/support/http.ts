@@ -32,6 +32,11 @@ export class Agent {
     return { status: res.status, headers: res.headers, text, json }
   }
 
+  /** The session cookies as a `cookie` header value (for requests made without this client). */
+  cookieHeader(): string {
+    return [...this.cookies].map(([k, v]) => `${k}=${v}`).join('; ')
+  }
+
   get(path: string, headers?: Record<string, string>) { return this.request('GET', path, undefined, headers) }
   post(path: string, body?: unknown, headers?: Record<string, string>) { return this.request('POST', path, body, headers) }
   patch(path: string, body?: unknown) { return this.request('PATCH', path, body) }

@@ -39,6 +39,8 @@ export const ROUTE_ACCESS: Record<string, Access> = {
   'GET /api/mail-drop': 'admin',
   'GET /api/mail-drop/:id': 'admin',
   'GET /api/audit': 'admin',
+  'GET /api/jobs': 'admin',
+  'POST /api/jobs/:id/cancel': 'admin',
 
   // Lobes (owner-or-admin for DELETE is checked beyond the role: see lobes.test.ts).
   'GET /api/lobes': 'viewer',

@@ -25,6 +25,8 @@ export interface RunningServer {
   /** Direct read/write access to the server's SQLite file (for checks on stored rows). */
   sql: () => Client
   stop: () => Promise<void>
+  /** Ends the server at once with SIGKILL (as a power cut or the OOM killer would), without a restart. */
+  crash: () => Promise<void>
   restart: () => Promise<void>
   dispose: () => Promise<void>
 }
@@ -80,6 +82,13 @@ export async function startServer(env: Record<string, string> = {}): Promise<Run
     if (child.exitCode === null) child.kill('SIGKILL')
   }
 
+  async function crash() {
+    if (!child || child.exitCode !== null) return
+    const exited = new Promise(r => child!.once('exit', r))
+    child.kill('SIGKILL')
+    await exited
+  }
+
   await start()
   return {
     url: `http://127.0.0.1:${port}`,
@@ -89,6 +98,7 @@ export async function startServer(env: Record<string, string> = {}): Promise<Run
     log: () => output,
     sql: () => (client ??= createClient({ url: fullEnv.DATABASE_URL!, timeout: 10_000 })),
     stop,
+    crash,
     restart: async () => {
       await stop()
       await start()

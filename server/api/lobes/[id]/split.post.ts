@@ -1,5 +1,6 @@
-import { join } from 'node:path'
+import { randomUUID } from 'node:crypto'
 import { eq } from 'drizzle-orm'
+import type { Lobe } from '../../../db/schema'
 import { z } from 'zod'
 import { idParamSchema } from '#shared/types/account'
 
@@ -24,33 +25,43 @@ export default defineEventHandler(async (event) => {
   const db = useDB()
   const lobe = await db.select().from(schema.lobes).where(eq(schema.lobes.id, id)).get()
   if (!lobe) throw notFound('Lobe')
-  const { derived } = uploadPaths()
-  const outPaths: [string, string] = [join(derived, `split-${lobe.sha256}-${Date.now()}-a.bin`), join(derived, `split-${lobe.sha256}-${Date.now()}-b.bin`)]
-  let split: { plane: { point: [number, number, number], normal: [number, number, number] }, neckArea: number, positiveVolume: number, negativeVolume: number }
+  // The parts are temporary files until both are lobes: a split makes both lobes or none.
+  const tag = randomUUID()
+  const outKeys: [string, string] = [`tmp/split-${tag}-a.bin`, `tmp/split-${tag}-b.bin`]
+  const store = await useMeshStore()
+  const made: { lobe: Lobe, job: Awaited<ReturnType<typeof lobeFromAnalysisMesh>>['job'] }[] = []
+  let split
   try {
-    split = await useWorkerPool().run('split', {
-      meshPath: derivedMeshPaths(lobe.sha256, lobe.units).analysis,
-      // The analysis mesh is stored in metres, like the plane point: no unit conversion here.
-      plane,
-      outPaths,
-    }, { priority: 5 })
+    try {
+      split = await runWorkerTask('split', {
+        analysisKey: derivedMeshKeys(lobe.sha256, lobe.units).analysis,
+        // The analysis mesh is stored in metres, like the plane point: no unit conversion here.
+        plane,
+        outKeys,
+      }, { interactive: true, priority: 5 })
+    }
+    catch (error) {
+      throw toHttpError(error)
+    }
+    // Part A is the larger part, part B the smaller (the usual order of a primary and a secondary).
+    const order = split.positiveVolume >= split.negativeVolume ? [0, 1] : [1, 0]
+    for (const [rank, i] of order.entries()) {
+      const side = i === 0 ? '+normal' : '−normal'
+      // The parent is known only here: each part keeps it in its report, and says in a warning that
+      // its flat cut face was made by the cut, not uploaded.
+      const origin = { kind: 'cut', lobeId: lobe.id, lobeName: lobe.name, side, plane: split.plane, neckArea: split.neckArea }
+      made.push(await lobeFromAnalysisMesh(outKeys[i]!, {
+        ownerId: actor.id, name: `${lobe.name} — part ${rank === 0 ? 'A' : 'B'}`, fileName: `${lobe.name}-part-${rank === 0 ? 'a' : 'b'}.ply`, density: lobe.density,
+        extraWarnings: [cutFaceWarning(lobe, split, side)], origin,
+      }))
+    }
   }
   catch (error) {
-    throw toHttpError(error)
+    await undoLobes(db, made.map(m => m.lobe))
+    throw error
   }
-  const made = []
-  // Part A is the larger part, part B the smaller (the usual order of a primary and a secondary).
-  const order = split.positiveVolume >= split.negativeVolume ? [0, 1] : [1, 0]
-  for (const [rank, i] of order.entries()) {
-    const path = outPaths[i]!
-    const side = i === 0 ? '+normal' : '−normal'
-    // The parent is known only here: each part keeps it in its report, and says in a warning that
-    // its flat cut face was made by the cut, not uploaded.
-    const origin = { kind: 'cut', lobeId: lobe.id, lobeName: lobe.name, side, plane: split.plane, neckArea: split.neckArea }
-    made.push(await lobeFromAnalysisMesh(path, {
-      ownerId: actor.id, name: `${lobe.name} — part ${rank === 0 ? 'A' : 'B'}`, fileName: `${lobe.name}-part-${rank === 0 ? 'a' : 'b'}.ply`, density: lobe.density,
-      extraWarnings: [cutFaceWarning(lobe, split, side)], origin,
-    }))
+  finally {
+    for (const k of outKeys) await store.remove(k).catch(() => undefined)
   }
   await audit(event, { actorId: actor.id, action: 'lobe.split', subjectType: 'lobe', subjectId: id, detail: { into: made.map(m => m.lobe.id) } })
   setResponseStatus(event, 201)

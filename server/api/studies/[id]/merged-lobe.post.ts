@@ -1,4 +1,3 @@
-import { existsSync } from 'node:fs'
 import { z } from 'zod'
 import { idParamSchema } from '#shared/types/account'
 
@@ -13,9 +12,9 @@ export default defineEventHandler(async (event) => {
   const { id } = paramsAs(event, idParamSchema)
   const { name } = await readBodyAs(event, body)
   const row = await loadStudy(useDB(), id)
-  const path = studyMeshPaths(row.study.cacheKey).analysis
+  const key = studyMeshKeys(row.study.cacheKey).analysis
   const merged = (row.study.result as { merged?: { density?: number, densityA?: number, densityB?: number, spinPeriod?: number | null, spinAxis?: [number, number, number] | null } } | null)?.merged
-  if (row.study.status !== 'done' || !merged?.density || !existsSync(path)) throw createError({ status: 409, statusText: 'Conflict', message: 'This study has no merged body (not finished, or no contact)' })
+  if (row.study.status !== 'done' || !merged?.density || !(await (await useMeshStore()).exists(key))) throw createError({ status: 409, statusText: 'Conflict', message: 'This study has no merged body (not finished, or no contact)' })
   // A lobe is homogeneous: a two-density merged body is saved at its bulk density, which keeps
   // its mass but not the centroid and inertia of the study's two-density body.
   const twoDensity = merged.densityA !== undefined && merged.densityB !== undefined && merged.densityA !== merged.densityB
@@ -25,7 +24,7 @@ export default defineEventHandler(async (event) => {
   // The merged body keeps the spin it inherited, so its slopes include the rotation.
   const spin = merged.spinPeriod && merged.spinAxis ? { spinPeriodHours: merged.spinPeriod / 3600, spinAxis: merged.spinAxis } : {}
   const origin = { kind: 'merged', studyId: id, studyTitle: row.study.title, density: merged.density, spinPeriodHours: spin.spinPeriodHours ?? null }
-  const { lobe, job } = await lobeFromAnalysisMesh(path, { ownerId: actor.id, name: name ?? `${row.a.name} + ${row.b.name} (merged, study ${id})`, fileName: `study-${id}-merged.ply`, density: merged.density, ...spin, extraWarnings, origin })
+  const { lobe, job } = await lobeFromAnalysisMesh(key, { ownerId: actor.id, name: name ?? `${row.a.name} + ${row.b.name} (merged, study ${id})`, fileName: `study-${id}-merged.ply`, density: merged.density, ...spin, extraWarnings, origin })
   await audit(event, { actorId: actor.id, action: 'lobe.from-study', subjectType: 'lobe', subjectId: lobe.id, detail: { study: id } })
   setResponseStatus(event, 201)
   return lobeView(lobe, job, { id: actor.id, name: actor.name })
