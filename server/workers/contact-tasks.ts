@@ -1,6 +1,5 @@
-import { runContactStudy, type ContactStudyInput, type ContactStudyResult } from '#shared/geometry'
-import { ContactBvhCache } from '#shared/geometry'
-import { createSpreadContext, runSpreadSample, type SpreadContext, type SpreadSample } from '#shared/geometry'
+import { ContactBvhCache, createSpreadContext, runContactStudy, runSpreadSample } from '#shared/geometry'
+import type { ContactStudyInput, ContactStudyResult, SpreadContext, SpreadSample } from '#shared/geometry'
 import { encodeAnalysisMesh } from '../../shared/utils/mesh-binary'
 import type { TaskProgress } from './tasks'
 import { displayBytes, loadAnalysisMesh, storeBytes } from './worker-io'

@@ -1,6 +1,5 @@
 import type { Vec3 } from '#shared/geometry'
-import { massProperties, readMesh, validateMesh } from '#shared/geometry'
-import { splitAtNeck } from '#shared/geometry'
+import { massProperties, readMesh, splitAtNeck, validateMesh } from '#shared/geometry'
 import { encodeAnalysisMesh } from '../../shared/utils/mesh-binary'
 import { useMeshStore } from '../utils/mesh-store'
 import type { TaskProgress } from './tasks'
