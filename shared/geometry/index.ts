@@ -9,6 +9,7 @@ export * from './types'
 export * from './math/linalg'
 export * from './math/eigen'
 export * from './math/rng'
+export * from './math/special'
 // meshes: generators and transforms, bounds, edges, components, compaction
 export * from './mesh/generate'
 export { vertexBounds } from './mesh/bounds'

@@ -20,7 +20,8 @@
 import type { Mat3, TriMesh, Vec3 } from '../types'
 import { GeometryError } from '../types'
 import { G } from '../mass/mass'
-import { factorial, harmonicCount, simplexHarmonicSums } from './solid-harmonics'
+import { factorial, kaulaNormalization } from '../math/special'
+import { harmonicCount, simplexHarmonicSums } from './solid-harmonics'
 
 export const DEFAULT_COEFFICIENT_DEGREE = 16
 export const MAX_COEFFICIENT_DEGREE = 64
@@ -88,14 +89,6 @@ export function coefficientSums(mesh: TriMesh, frame: CoefficientFrame, R: numbe
     if (onProgress && (f - start + 1) % step === 0) onProgress((f - start + 1) / (end - start))
   }
   return out
-}
-
-/** N_lm of the 4π normalisation. */
-export function kaulaNormalization(l: number, m: number): number {
-  // (l−m)!/(l+m)! as a product, to stay finite at high degree
-  let q = 1
-  for (let k = l - m + 1; k <= l + m; k++) q /= k
-  return Math.sqrt((m === 0 ? 1 : 2) * (2 * l + 1) * q)
 }
 
 /**

@@ -212,10 +212,3 @@ export function translateMoments(src: Float64Array, srcOffset: number, sx: numbe
     }
   }
 }
-
-/** n! as a float (exact to 22!, then rounded). */
-export function factorial(n: number): number {
-  let f = 1
-  for (let i = 2; i <= n; i++) f *= i
-  return f
-}

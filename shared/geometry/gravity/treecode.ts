@@ -28,7 +28,8 @@
 import type { TriMesh, Vec3 } from '../types'
 import { GeometryError } from '../types'
 import { G } from '../mass/mass'
-import { factorial, harmonicCount, irregularHarmonics, simplexHarmonicSums, translateMoments, translationScratch } from './solid-harmonics'
+import { factorial } from '../math/special'
+import { harmonicCount, irregularHarmonics, simplexHarmonicSums, translateMoments, translationScratch } from './solid-harmonics'
 
 export interface TreecodeOptions {
   /** Target relative error of |g| (U: accuracy/10). Default 1e-7. */

@@ -16,6 +16,7 @@
  * 4π (Kaula) normalisation: C̄_lm = C_lm / N_lm, N_lm = √[(2−δ_m0)(2l+1)(l−m)!/(l+m)!].
  */
 import type { Mat3, TriMesh, Vec3 } from '../types'
+import { factorial, kaulaNormalization } from '../math/special'
 import { MOMENT_MONOMIALS } from './moments'
 
 export const HARMONIC_DEGREE = 4
@@ -57,13 +58,6 @@ export function solidHarmonics(x: number, y: number, z: number, out: Float64Arra
       out[15 + k] = ((2 * l - 1) * z * out[15 + ka]! - (l + m - 1) * r2 * out[15 + kb]!) / (l - m)
     }
   }
-}
-
-function factorial(n: number): number { let f = 1; for (let i = 2; i <= n; i++) f *= i; return f }
-
-/** N_lm of the 4π normalisation. */
-export function kaulaNorm(l: number, m: number): number {
-  return Math.sqrt((m === 0 ? 1 : 2) * (2 * l + 1) * factorial(l - m) / factorial(l + m))
 }
 
 /**
@@ -129,7 +123,7 @@ export function harmonicsFromIntegrals(ints: Float64Array, volume: number, R: nu
       const k = (l * (l + 1)) / 2 + m
       const f = (m === 0 ? 1 : 2) * factorial(l - m) / factorial(l + m) / (volume * R ** l)
       const c = ints[k]! * f, s = m === 0 ? 0 : ints[15 + k]! * f
-      const n = kaulaNorm(l, m)
+      const n = kaulaNormalization(l, m)
       C[l]!.push(c); S[l]!.push(s); Cn[l]!.push(c / n); Sn[l]!.push(s / n)
     }
   }
