@@ -14,6 +14,11 @@ export const users = sqliteTable('users', {
   lastSignInAt: integer('last_sign_in_at', { mode: 'timestamp_ms' }),
   /** Last password change or reset: sessions signed in before it are refused. */
   credentialsChangedAt: integer('credentials_changed_at', { mode: 'timestamp_ms' }),
+  /**
+   * Sessions carry the version they were signed in under and are refused once it moves on: sign-out,
+   * password change, password reset and deactivation each add one, ending every session at once.
+   */
+  sessionVersion: integer('session_version').notNull().default(0),
   createdAt: createdAt(),
 }, t => [uniqueIndex('users_email_unique').on(t.email)])
 

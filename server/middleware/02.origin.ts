@@ -22,17 +22,18 @@ function allowedOrigins(): Set<string> {
 /**
  * Rejects cross-site state-changing requests on every path. Browsers send `Origin` (and
  * `Sec-Fetch-Site`) on every POST/PATCH/PUT/DELETE; scripts with an API token usually send
- * neither and pass.
+ * neither and pass. An `Origin` header that is present but empty (or `null`) is refused.
  */
 export default defineEventHandler((event) => {
   if (SAFE.has(event.method)) return
   const site = getRequestHeader(event, 'sec-fetch-site')
-  const origin = getRequestHeader(event, 'origin')
-  if (!origin) {
+  // Absent is not the same as empty: an `Origin:` header with no value is a bad origin, not none.
+  const origin = event.node.req.headers.origin
+  if (origin === undefined) {
     if (site === 'cross-site') throw forbiddenOrigin()
     return
   }
-  if (origin === 'null' || !allowedOrigins().has(origin)) throw forbiddenOrigin()
+  if (origin === 'null' || !allowedOrigins().has(origin.trim())) throw forbiddenOrigin()
 })
 
 function forbiddenOrigin() {

@@ -26,6 +26,20 @@ export interface IsthmusConfig {
   signinMaxFailures: number
   signinMaxFailuresPerIp: number
   signinWindowMs: number
+  /**
+   * Back-off once a key holds its allowed failures: the next attempt waits base × 2^(failures −
+   * allowed), capped per account and per client address (a capped account wait keeps the owner
+   * able to sign in while strangers guess; the address wait grows longer).
+   */
+  signinBackoffBaseMs: number
+  signinBackoffMaxMs: number
+  signinBackoffMaxMsPerIp: number
+  /**
+   * `Secure` flag of the session cookie: 'auto' (default) sets it when the public URL is https, the
+   * request came over https, or the host is loopback (browsers keep Secure cookies there); 'always'
+   * and 'never' force it.
+   */
+  cookieSecure: 'auto' | 'always' | 'never'
   maxUploadBytes: number
   invitationTtlMs: number
   passwordResetTtlMs: number
@@ -84,6 +98,13 @@ function s3Settings(): IsthmusConfig['s3'] {
   }
 }
 
+function cookieSecureSetting(raw: string | undefined): IsthmusConfig['cookieSecure'] {
+  if (raw === undefined || raw === '' || raw === 'auto') return 'auto'
+  if (raw === '1' || raw === 'true' || raw === 'always') return 'always'
+  if (raw === '0' || raw === 'false' || raw === 'never') return 'never'
+  throw new Error(`ISTHMUS_COOKIE_SECURE must be auto, always or never, got "${raw}"`)
+}
+
 let cached: IsthmusConfig | undefined
 
 export function useConfig(): IsthmusConfig {
@@ -107,6 +128,10 @@ export function useConfig(): IsthmusConfig {
     signinMaxFailures: int('ISTHMUS_SIGNIN_MAX_FAILURES', 10),
     signinMaxFailuresPerIp: int('ISTHMUS_SIGNIN_MAX_FAILURES_PER_IP', int('ISTHMUS_SIGNIN_MAX_FAILURES', 10)),
     signinWindowMs: int('ISTHMUS_SIGNIN_WINDOW_SECONDS', 15 * 60) * 1000,
+    signinBackoffBaseMs: int('ISTHMUS_SIGNIN_BACKOFF_BASE_SECONDS', 1) * 1000,
+    signinBackoffMaxMs: int('ISTHMUS_SIGNIN_BACKOFF_MAX_SECONDS', 60) * 1000,
+    signinBackoffMaxMsPerIp: int('ISTHMUS_SIGNIN_BACKOFF_MAX_SECONDS_PER_IP', 15 * 60) * 1000,
+    cookieSecure: cookieSecureSetting(process.env.ISTHMUS_COOKIE_SECURE),
     maxUploadBytes: int('ISTHMUS_MAX_UPLOAD_MB', 512) * 1024 * 1024,
     invitationTtlMs: int('ISTHMUS_INVITATION_TTL_HOURS', 7 * 24) * 3600_000,
     passwordResetTtlMs: int('ISTHMUS_PASSWORD_RESET_TTL_MINUTES', 60) * 60_000,

@@ -3,6 +3,7 @@ import { asc, eq } from 'drizzle-orm'
 import { ALGORITHM_VERSION } from '#shared/utils/version'
 import { sameFileWarning, sizeCheckWarning } from '#shared/utils/lobe-checks'
 import type { AnalyseResult } from '../workers/mesh-tasks'
+import { normaliseFileName } from '#shared/utils/names'
 
 export interface IngestInput {
   /** A file inside UPLOADS_DIR/tmp (renames across file systems fail). Moved or removed here. */
@@ -67,12 +68,13 @@ export async function ingestLobe(input: IngestInput) {
     sizeCheckWarning(Number(analysed.properties.equivalentRadius), input.units),
     sameFileWarning(earlier, input.units),
   ].filter(w => w !== null)
-  const fallbackName = (input.originalName ?? 'lobe').replace(/\.(obj|ply)$/i, '').slice(0, 120) || 'lobe'
+  const originalName = input.originalName ? normaliseFileName(input.originalName) : ''
+  const fallbackName = [...originalName.replace(/\.(obj|ply)$/i, '')].slice(0, 120).join('').trim() || 'lobe'
   const [lobe] = await db.insert(schema.lobes).values({
     name: input.name || fallbackName,
     ownerId: input.ownerId,
     sha256: input.sha256,
-    sourceFileName: (input.originalName ?? `${input.sha256}.${ext}`).slice(0, 255),
+    sourceFileName: originalName || `${input.sha256}.${ext}`,
     format: ext,
     units: input.units,
     density: input.density,

@@ -57,23 +57,78 @@ export async function pruneAttempts(prefix: string, windowMs: number) {
   await useDB().delete(t).where(and(like(t.key, `${prefix}%`), lt(t.at, new Date(Date.now() - 2 * windowMs))))
 }
 
-/**
- * Sign-in throttling: at most `signinMaxFailures` failed attempts per account and
- * `signinMaxFailuresPerIp` per client address within `signinWindowMs`. The attempt is charged
- * before the password is checked (see `takeAttempt`); a failure simply leaves it counted.
- * @returns the attempt's row ids, for `releaseAttempt` after a successful sign-in.
- * @throws 429 with `Retry-After` (seconds) when either key is over the limit.
- */
-export async function takeSigninAttempt(event: H3Event, accountKey: string, ipKey: string): Promise<number[]> {
-  const { signinMaxFailures, signinMaxFailuresPerIp, signinWindowMs } = useConfig()
-  return takeAttempt(event, [{ key: accountKey, max: signinMaxFailures }, { key: ipKey, max: signinMaxFailuresPerIp }], signinWindowMs, 'failed sign-ins')
+/** One throttled key of a password check: failures allowed in the window, and its longest back-off. */
+interface BackoffKey {
+  key: string
+  allowed: number
+  maxWaitMs: number
 }
 
-/** After a failed sign-in: drops rows too old to count. The failure itself stays charged. */
-export async function pruneSigninFailures() {
-  const { signinWindowMs } = useConfig()
-  await pruneAttempts('account:', signinWindowMs)
-  await pruneAttempts('ip:', signinWindowMs)
+/**
+ * The one throttle every password check goes through (sign-in, the current password on a password
+ * change). Failures are counted per account (`account:<e-mail>`) and per client address
+ * (`ip:<address>`) within `signinWindowMs`. Up to the allowed number a key is free; past it the next
+ * check must wait base × 2^(failures − allowed) after the key's last failure, capped per account
+ * (`signinBackoffMaxMs`, short, so strangers guessing cannot keep the owner out for long) and per
+ * address (`signinBackoffMaxMsPerIp`). There is no hard lockout: once the wait is over the right
+ * password works, from anywhere. A check refused during a wait costs nothing and answers 429.
+ *
+ * The attempt is charged before the password is checked (one row per key, as `takeAttempt`), and
+ * only rows inserted before it count towards its wait, so parallel guesses cannot all slip through:
+ * of a burst, the ones past the allowed number find an earlier failure from that very moment.
+ * @param check the password comparison (slow by design); runs only when no wait applies.
+ * @returns whether the password was right. A right one takes back the attempt and clears the
+ *   account's failures; a wrong one stays counted.
+ * @throws 429 with `Retry-After` (seconds) and `data.retryAfterSeconds` while a wait applies.
+ */
+export async function throttledPasswordCheck(event: H3Event, email: string, check: () => Promise<boolean>): Promise<boolean> {
+  const config = useConfig()
+  const accountKey = `account:${email}`
+  const keys: BackoffKey[] = [
+    { key: accountKey, allowed: config.signinMaxFailures, maxWaitMs: config.signinBackoffMaxMs },
+    { key: `ip:${clientIp(event)}`, allowed: config.signinMaxFailuresPerIp, maxWaitMs: config.signinBackoffMaxMsPerIp },
+  ]
+  const db = useDB()
+  const t = schema.signinFailures
+  const now = Date.now()
+  const inserted = await db.insert(t).values(keys.map(k => ({ key: k.key, at: new Date(now) }))).returning({ id: t.id, key: t.key })
+  const ids = inserted.map(r => r.id)
+  let waitUntil = 0
+  for (const k of keys) {
+    const own = inserted.find(r => r.key === k.key)!.id
+    const earlier = await db.select({ n: sql<number>`count(*)`, last: sql<number | null>`max(${t.at})` }).from(t)
+      .where(and(eq(t.key, k.key), gte(t.at, new Date(now - config.signinWindowMs)), lt(t.id, own))).get()
+    const n = Number(earlier?.n ?? 0)
+    if (n < k.allowed || earlier?.last == null) continue
+    const wait = Math.min(k.maxWaitMs, config.signinBackoffBaseMs * 2 ** Math.min(n - k.allowed, 40))
+    waitUntil = Math.max(waitUntil, Number(earlier.last) + wait)
+  }
+  if (waitUntil > Date.now()) {
+    await releaseAttempt(ids)
+    const retryAfter = Math.max(1, Math.ceil((waitUntil - Date.now()) / 1000))
+    setResponseHeader(event, 'Retry-After', retryAfter)
+    throw createError({
+      status: 429,
+      statusText: 'Too Many Requests',
+      message: `Too many wrong passwords. Try again in ${retryAfter} s.`,
+      data: { code: 'too-many-attempts', retryAfterSeconds: retryAfter },
+    })
+  }
+  let ok = false
+  try {
+    ok = await check()
+  }
+  finally {
+    if (ok) {
+      await releaseAttempt(ids)
+      await clearSigninFailures(accountKey)
+    }
+    else {
+      await pruneAttempts('account:', config.signinWindowMs)
+      await pruneAttempts('ip:', config.signinWindowMs)
+    }
+  }
+  return ok
 }
 
 export async function clearSigninFailures(key: string) {

@@ -19,8 +19,32 @@ function parseWith<T extends z.ZodType>(schema: T, value: unknown, what: string)
   return result.data
 }
 
-/** Reads and validates a JSON body; bad or missing JSON and schema failures answer 422. */
+/** `application/json` or a `+json` type, with any parameters (`; charset=utf-8`). */
+function isJsonType(type: string | undefined): boolean {
+  const essence = (type ?? '').split(';')[0]!.trim().toLowerCase()
+  return essence === 'application/json' || /^application\/[\w.+-]+\+json$/.test(essence)
+}
+
+/** Whether the request carries a body (declared length above 0, or chunked). */
+function hasBody(event: H3Event): boolean {
+  const length = getRequestHeader(event, 'content-length')
+  if (length !== undefined) return Number(length) > 0
+  return getRequestHeader(event, 'transfer-encoding') !== undefined
+}
+
+/**
+ * Reads and validates a JSON body; bad or missing JSON and schema failures answer 422. JSON routes
+ * take JSON only: a body of any other type (a form post, text) answers 415 before it is read.
+ */
 export async function readBodyAs<T extends z.ZodType>(event: H3Event, schema: T): Promise<z.infer<T>> {
+  if (hasBody(event) && !isJsonType(getRequestHeader(event, 'content-type'))) {
+    throw createError({
+      status: 415,
+      statusText: 'Unsupported Media Type',
+      message: 'Send the body as JSON (Content-Type: application/json)',
+      data: { code: 'unsupported-media-type', issues: [{ path: '(body)', message: 'not application/json' }] },
+    })
+  }
   let body: unknown
   try {
     body = await readBody(event)

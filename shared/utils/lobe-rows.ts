@@ -51,10 +51,3 @@ export function flattenValue(key: string, value: unknown): { key: string, value:
   if (value && typeof value === 'object') return Object.entries(value).flatMap(([k, v]) => flattenValue(`${key}.${k}`, v))
   return []
 }
-
-/** CSV field quoting (RFC 4180). Numbers keep full float64 precision (shortest round-trip form). */
-export function csvCell(v: string | number | null | undefined): string {
-  if (v === null || v === undefined) return ''
-  const s = typeof v === 'number' ? String(v) : v
-  return /[",\n\r]/.test(s) ? `"${s.replace(/"/g, '""')}"` : s
-}

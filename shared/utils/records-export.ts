@@ -4,6 +4,8 @@
  * value parses back to the identical number; nothing is rounded.
  */
 
+import { csvCell } from './csv'
+
 export interface RecordExportValue {
   id: number
   quantityKey: string
@@ -140,11 +142,9 @@ export function recordSpreadNote(value: number | number[], spread: SpreadLike, u
     + 'The spread sampled different inputs (e.g. a density range) from the nominal run; quote its centre with its σ, not the nominal value.'
 }
 
-/** RFC 4180 cell: quoted when it holds a comma, quote or line break. */
+/** A record CSV cell: the shared writer (quoting, formula neutralising) with the records' number form. */
 export function recordCsvCell(v: string | number | null | undefined): string {
-  if (v === null || v === undefined) return ''
-  const s = typeof v === 'number' ? recordNumberText(v) : v
-  return /[",\r\n]/.test(s) || /^\s|\s$/.test(s) ? `"${s.replace(/"/g, '""')}"` : s
+  return csvCell(v, recordNumberText)
 }
 
 function iso(d: string | Date | null | undefined): string {

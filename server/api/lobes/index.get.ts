@@ -1,4 +1,4 @@
-import { and, asc, desc, eq, like, sql, type SQL } from 'drizzle-orm'
+import { and, asc, desc, eq, sql, type SQL } from 'drizzle-orm'
 import { lobeListQuerySchema } from '#shared/types/lobes'
 
 /** Lobes, paged and sortable: `{ items, total }` (items carry the headline properties). */
@@ -8,7 +8,7 @@ export default defineEventHandler(async (event) => {
   const db = useDB()
   const l = schema.lobes
   const where: SQL[] = []
-  if (q.q) where.push(like(l.name, `%${q.q.replace(/[%_]/g, m => `\\${m}`)}%`))
+  if (q.q) where.push(containsText(l.name, q.q))
   if (q.owner) where.push(eq(l.ownerId, q.owner))
   const cond = where.length ? and(...where) : undefined
   const sortCol = {

@@ -1,5 +1,4 @@
 import { rm } from 'node:fs/promises'
-import formidable, { errors as formidableErrors } from 'formidable'
 import { labelIssue, lobeUploadFieldsSchema } from '#shared/types/lobes'
 import { zodIssues } from '../../utils/validate'
 
@@ -8,6 +7,7 @@ import { zodIssues } from '../../utils/validate'
  * `referenceRadius` m and `spinPeriodHours`). The role is checked before the body is read; the file
  * is stored by sha256 (formidable writes inside UPLOADS_DIR, then one rename), analysed on a worker
  * thread, and the lobe's properties answered with 201. Bad meshes answer 422 with what and where.
+ * The mesh part is read with or without a Content-Type (`readMeshUpload`).
  * The answer's `warnings` include 'size-check' (a size no target body has: wrong units?) and
  * 'same-file' (the same file as earlier lobes, named) besides the mesh's own.
  */
@@ -15,38 +15,15 @@ export default defineEventHandler(async (event) => {
   const actor = await requireRole(event, 'analyst')
   const config = useConfig()
   const declared = Number(getRequestHeader(event, 'content-length'))
-  if (Number.isFinite(declared) && declared > config.maxUploadBytes + 64 * 1024) throw tooLarge(config.maxUploadBytes)
+  if (Number.isFinite(declared) && declared > config.maxUploadBytes + 64 * 1024) throw uploadTooLarge(config.maxUploadBytes)
   const paths = uploadPaths()
   const started: string[] = []
   const timing: string[] = []
-  const form = formidable({
-    uploadDir: paths.tmp,
-    maxFiles: 1,
-    maxFields: 10,
-    maxFieldsSize: 64 * 1024,
-    maxFileSize: config.maxUploadBytes,
-    maxTotalFileSize: config.maxUploadBytes,
-    allowEmptyFiles: true,
-    minFileSize: 0,
-    hashAlgorithm: 'sha256',
-    filter: part => part.name === 'file',
-  })
-  form.on('fileBegin', (_name, file) => started.push(file.filepath))
   let tmpPath: string | undefined
   try {
-    let fields: formidable.Fields
-    let files: formidable.Files
-    try {
-      const t0 = performance.now()
-      ;[fields, files] = await form.parse(event.node.req)
-      timing.push(`receive;dur=${(performance.now() - t0).toFixed(1)}`)
-    }
-    catch (error) {
-      const code = (error as { code?: number }).code
-      if (code === formidableErrors.biggerThanMaxFileSize || code === formidableErrors.biggerThanTotalMaxFileSize) throw tooLarge(config.maxUploadBytes)
-      throw createError({ status: 400, statusText: 'Bad Request', message: `The upload could not be read: ${(error as Error).message}` })
-    }
-    const file = files.file?.[0]
+    const t0 = performance.now()
+    const { fields, file } = await readMeshUpload(event.node.req, { uploadDir: paths.tmp, maxFileBytes: config.maxUploadBytes, onFileStart: p => started.push(p) })
+    timing.push(`receive;dur=${(performance.now() - t0).toFixed(1)}`)
     if (!file) throw unprocessable('Attach the mesh as the multipart field "file"', [{ path: 'file', message: 'missing' }])
     tmpPath = file.filepath
     const one = (k: string) => fields[k]?.[0]
@@ -78,7 +55,3 @@ export default defineEventHandler(async (event) => {
     if (tmpPath) await rm(tmpPath, { force: true }).catch(() => undefined)
   }
 })
-
-function tooLarge(limit: number) {
-  return createError({ status: 413, statusText: 'Content Too Large', message: `The upload is larger than the limit of ${Math.round(limit / 1024 / 1024)} MB (ISTHMUS_MAX_UPLOAD_MB)` })
-}

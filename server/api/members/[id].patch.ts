@@ -1,7 +1,10 @@
 import { idParamSchema, memberUpdateSchema } from '#shared/types/account'
 import { and, eq, ne } from 'drizzle-orm'
 
-/** Change a member's role or deactivate/reactivate them (admin). Data is never deleted. */
+/**
+ * Change a member's role or deactivate/reactivate them (admin). Data is never deleted. Deactivation
+ * ends the member's sessions and revokes their API tokens for good: re-activating revives neither.
+ */
 export default defineEventHandler(async (event) => {
   const actor = await requireRole(event, 'admin')
   const { id } = paramsAs(event, idParamSchema)
@@ -20,6 +23,10 @@ export default defineEventHandler(async (event) => {
     const [after] = await tx.update(schema.users).set(change).where(eq(schema.users.id, id)).returning()
     if (change.role && change.role !== before.role) {
       await audit(event, { actorId: actor.id, action: 'member.role-changed', subjectType: 'user', subjectId: id, detail: { from: before.role, to: change.role } }, tx)
+    }
+    if (change.active === false && before.active) {
+      await endSessions(tx, id)
+      await revokeTokens(tx, id)
     }
     if (change.active !== undefined && change.active !== before.active) {
       await audit(event, { actorId: actor.id, action: change.active ? 'member.reactivated' : 'member.deactivated', subjectType: 'user', subjectId: id }, tx)

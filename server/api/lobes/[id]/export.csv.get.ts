@@ -1,3 +1,5 @@
+import { csvRow } from '#shared/utils/csv'
+
 /**
  * The lobe's property table as CSV: quantity, value, unit (one row per component), with the inputs on
  * every row: density and the spin the surface fields (slope, geopotential) were computed with —
@@ -8,10 +10,10 @@ export default defineEventHandler(async (event) => {
   const { id, view } = await lobeForExport(event, 'csv')
   const props = view.properties as Record<string, unknown>
   const spinS = view.spinPeriodHours ? view.spinPeriodHours * 3600 : null
-  const lines = [['quantity', 'value', 'unit', 'lobe', 'sha256', 'density_kg_m3', 'algorithm_version', 'spin_period_s', 'spin'].join(',')]
+  const lines = [csvRow(['quantity', 'value', 'unit', 'lobe', 'sha256', 'density_kg_m3', 'algorithm_version', 'spin_period_s', 'spin'])]
   for (const row of [...LOBE_PROPERTY_ROWS, ...LOBE_EXPORT_EXTRA_ROWS]) {
     for (const cell of flattenValue(row.key, props[row.key])) {
-      lines.push([cell.key, cell.value, row.unit, view.name, view.sha256, view.properties.density, view.algorithmVersion, spinS, spinS === null ? 'not rotating' : 'rotating'].map(csvCell).join(','))
+      lines.push(csvRow([cell.key, cell.value, row.unit, view.name, view.sha256, view.properties.density, view.algorithmVersion, spinS, spinS === null ? 'not rotating' : 'rotating']))
     }
   }
   setResponseHeaders(event, { 'content-type': 'text/csv; charset=utf-8', 'content-disposition': `attachment; filename="lobe-${id}.csv"` })
