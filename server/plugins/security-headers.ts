@@ -33,6 +33,7 @@ export function contentSecurityPolicy(nonce: string): string {
 }
 
 const NONCES = new WeakMap<object, string>()
+const ZOD_JITLESS = '<script>globalThis.__zod_globalConfig=Object.assign(globalThis.__zod_globalConfig||{},{jitless:true})</script>'
 
 export default defineNitroPlugin((nitro) => {
   nitro.hooks.hook('request', (event) => {
@@ -43,7 +44,11 @@ export default defineNitroPlugin((nitro) => {
     const nonce = randomBytes(16).toString('base64')
     NONCES.set(event, nonce)
     const sign = (chunks: string[]) => chunks.map(c => c.replace(/<script(?=[\s>])/g, `<script nonce="${nonce}"`))
-    html.head = sign(html.head)
+    // zod probes once whether it may compile parsers with `new Function`, when its first object
+    // schema is built (as the page's modules load); under this CSP the probe, although caught, is
+    // reported as a violation. Its global config is read from `globalThis.__zod_globalConfig`:
+    // setting `jitless` there before any module runs skips the probe (plain parsers, same results).
+    html.head = sign([ZOD_JITLESS, ...html.head])
     html.bodyPrepend = sign(html.bodyPrepend)
     html.body = sign(html.body)
     html.bodyAppend = sign(html.bodyAppend)

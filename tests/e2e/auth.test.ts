@@ -54,6 +54,9 @@ describe('sign-in, sessions, invitations and password resets', () => {
     expect((await a.delete('/api/session')).status).toBe(200)
     expect((await a.get('/api/session')).json).toEqual({ user: null })
     expect((await a.get('/api/members')).status).toBe(401)
+    // Signing out ends every session of the member on the server, this file's admin agent's too.
+    expect((await admin.get('/api/members')).status).toBe(401)
+    await admin.signIn('root@example.org', 'root-password-123')
   })
 
   it('gives the same generic 401 for an unknown e-mail and a wrong password', async () => {
