@@ -92,5 +92,8 @@ export default defineNuxtConfig({
       if (nuxt.options.dev) await buildWorkers(resolve(nuxt.options.buildDir, 'workers'))
     },
   },
+  // The app keeps its own session store (GET /api/session); nuxt-auth-utils' own page plugins would
+  // fetch /api/_auth/session once more on every server render, for nothing.
+  auth: { loadStrategy: 'none' },
   tailwindcss: { configPath: 'tailwind.config.ts', cssPath: false },
 })

@@ -5,7 +5,8 @@
  * 1 310 720-face lobe is computed. Prints p50 / p99 / max latency (ms) and the rate reached, for
  * each phase, plus the server's own split of where request time goes (`Server-Timing` of a sample).
  * Target: p99 ≤ 100 ms in both phases. Run: `npm run bench -- load` (builds the app when .output
- * is missing). Set ISTHMUS_LOAD_SECONDS to shorten the phases while iterating.
+ * is missing). Set ISTHMUS_LOAD_SECONDS to shorten the phases while iterating, and
+ * ISTHMUS_LOAD_PROFILE=<folder> to have the server write a V8 CPU profile there (where the time goes).
  */
 import { existsSync } from 'node:fs'
 import { spawnSync } from 'node:child_process'
@@ -41,7 +42,8 @@ export async function runLoadBench(): Promise<Record<string, LoadFigures | numbe
   if (!existsSync('.output/server/index.mjs')) spawnSync('npx', ['nuxt', 'build'], { stdio: 'inherit' })
   const autocannon = (await import('autocannon')).default as unknown as Autocannon
   const seconds = Number(process.env.ISTHMUS_LOAD_SECONDS || 30)
-  const server = await startServer({ ISTHMUS_MAX_UPLOAD_MB: '512' })
+  const profile = process.env.ISTHMUS_LOAD_PROFILE
+  const server = await startServer({ ISTHMUS_MAX_UPLOAD_MB: '512' }, { nodeArgs: profile ? ['--cpu-prof', `--cpu-prof-dir=${profile}`] : [] })
   try {
     const admin = new Agent(server.url)
     await admin.signIn('root@example.org', 'root-password-123')

@@ -2,6 +2,9 @@ import type { H3Event } from 'h3'
 import { and, eq, isNull, lt, or, sql } from 'drizzle-orm'
 import { type Role, roleSatisfies } from '#shared/types/roles'
 
+/** Name of the session cookie (nuxt-auth-utils' default, not changed in nuxt.config). */
+const SESSION_COOKIE = 'nuxt-session'
+
 /** A token's `lastUsedAt` is written at most this often (ms): scripted reads cost no write each. */
 export const TOKEN_LAST_USED_RESOLUTION_MS = 60_000
 
@@ -52,7 +55,7 @@ export async function requireActor(event: H3Event): Promise<Actor> {
     actor = { id: row.user.id, email: row.user.email, name: row.user.name, role: row.user.role, via: 'token', tokenId: row.tokenId }
   }
   else {
-    const session = await getUserSession(event)
+    const session = await sessionOf(event)
     const id = session.user?.id
     if (typeof id !== 'number') throw createError({ status: 401, statusText: 'Unauthorized', message: 'Sign in first' })
     const user = await db.select().from(schema.users).where(eq(schema.users.id, id)).get()
@@ -71,6 +74,32 @@ export async function requireActor(event: H3Event): Promise<Actor> {
   }
   event.context.actor = actor
   return actor
+}
+
+/** Unsealed session cookies by their sealed text: unsealing costs a key derivation, an HMAC and a decryption. */
+const unsealed = new Map<string, { user?: import('#auth-utils').User, at: number }>()
+const UNSEALED_MAX = 5000
+/** How long an unsealed cookie is reused (ms). Revocation does not depend on it: the session version is read each time. */
+const UNSEALED_TTL_MS = 60_000
+
+/**
+ * The session cookie's content, unsealed once per distinct cookie and then reused for a minute
+ * (a page rendered on the server asks the API several times with the same cookie). The sealed
+ * text is integrity-protected, so the same text always holds the same content; whether the session
+ * still counts is decided afterwards against the database, never by this cache.
+ */
+async function sessionOf(event: H3Event): Promise<{ user?: import('#auth-utils').User }> {
+  const sealed = getCookie(event, SESSION_COOKIE)
+  if (!sealed) return getUserSession(event)
+  const now = Date.now()
+  const hit = unsealed.get(sealed)
+  if (hit && now - hit.at < UNSEALED_TTL_MS) return hit
+  const session = await getUserSession(event)
+  if (unsealed.size >= UNSEALED_MAX) {
+    for (const [k, v] of unsealed) if (now - v.at >= UNSEALED_TTL_MS || unsealed.size >= UNSEALED_MAX) unsealed.delete(k)
+  }
+  unsealed.set(sealed, { user: session.user, at: now })
+  return session
 }
 
 /**

@@ -35,7 +35,7 @@ export interface RunningServer {
  * Starts the built server (`node .output/server/index.mjs`) on a free loopback port with its own
  * data folder, database file, uploads folder and embedded SMTP server, and waits until it answers.
  */
-export async function startServer(env: Record<string, string> = {}): Promise<RunningServer> {
+export async function startServer(env: Record<string, string> = {}, opts: { nodeArgs?: string[] } = {}): Promise<RunningServer> {
   const dataDir = mkdtempSync(join(tmpdir(), 'isthmus-e2e-'))
   const port = await freePort()
   const fullEnv: Record<string, string> = {
@@ -55,7 +55,7 @@ export async function startServer(env: Record<string, string> = {}): Promise<Run
   let client: Client | undefined
 
   async function start() {
-    child = spawn(process.execPath, [resolve('.output/server/index.mjs')], {
+    child = spawn(process.execPath, [...(opts.nodeArgs ?? []), resolve('.output/server/index.mjs')], {
       env: { PATH: process.env.PATH ?? '', ...fullEnv },
       stdio: ['ignore', 'pipe', 'pipe'],
     })
