@@ -1,6 +1,6 @@
 import { request as httpRequest, type IncomingHttpHeaders } from 'node:http'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
-import { icosphere, writeObj, writePly } from '../../shared/geometry'
+import { icosphere, writeObj, writePly } from '#shared/geometry'
 import { openBrowser } from './support/browser'
 import { parseCsvWithPython } from './support/csv'
 import { Agent, latestMailTo, linkIn } from './support/http'
@@ -131,6 +131,21 @@ describe('hardening: sessions, throttles, exports, headers, bodies, names', () =
     const bigBody = Buffer.concat([body.subarray(0, body.indexOf(mesh)), big, Buffer.from(`\r\n--${boundary}--\r\n`)])
     const res2 = await analyst.post('/api/lobes', new Uint8Array(bigBody), { 'content-type': `multipart/form-data; boundary=${boundary}` })
     expect(res2.status, res2.text).toBe(201)
+  })
+
+  it('5. numbers like 0x10 and 0b1 in OBJ and ASCII PLY answer 422 naming the line', async () => {
+    const obj = ['v 0 0 0', 'v 1 0 0', 'v 0 0x10 0', 'v 0 0 1', 'f 1 3 2', 'f 1 2 4', 'f 1 4 3', 'f 2 3 4'].join('\n')
+    const a = await uploadLobe(analyst, new TextEncoder().encode(obj), 'hex.obj', { density: '1000', units: 'm' })
+    expect(a.status).toBe(422)
+    expect(a.json.data.code).toBe('bad-number')
+    expect(a.json.data.issues[0].path).toBe('line[3]')
+    expect(a.json.message).toMatch(/line 3/)
+    const ply = ['ply', 'format ascii 1.0', 'element vertex 4', 'property float x', 'property float y', 'property float z', 'element face 4', 'property list uchar int vertex_indices', 'end_header',
+      '0 0 0', '1 0 0', '0 1 0', '0 0 0b1', '3 0 2 1', '3 0 1 3', '3 0 3 2', '3 1 2 3'].join('\n')
+    const b = await uploadLobe(analyst, new TextEncoder().encode(ply), 'bin.ply', { density: '1000', units: 'm' })
+    expect(b.status).toBe(422)
+    expect(b.json.data.code).toBe('bad-number')
+    expect(b.json.message).toMatch(/line 4/)
   })
 
   it('6. no hard lockout: after 10 failures the right password from elsewhere signs in once the back-off is over', async () => {

@@ -29,13 +29,14 @@ export function isSep(c: number): boolean {
 
 /**
  * Parse the number token starting at `i` (no leading spaces), ending at a separator or `end`.
- * Returns NaN when `Number()` would (the caller raises the error with the line number), and
- * otherwise exactly the double `Number()` gives (correctly rounded, ties to even):
+ * Returns NaN when `Number()` would, and for hexadecimal, binary and octal spellings (`0x10`,
+ * `0b1`, `0o7`), which `Number()` accepts but are no decimal number (the caller raises the error
+ * with the line number); otherwise exactly the double `Number()` gives (correctly rounded, ties to even):
  * - ≤ 15 significant digits, |decimal exponent| ≤ 22: Clinger's fast path (integer mantissa and
  *   10^|e| are both exact doubles, so one IEEE multiply or divide rounds correctly);
  * - 16 to 19 significant digits, |exponent| ≤ 22 (what shortest round-trip writers produce):
  *   `roundDecimal`, double-double arithmetic with a proven error bound;
- * - anything else (more digits, larger exponents, inf/hex spellings): `Number()` on the token.
+ * - anything else (more digits, larger exponents, `Infinity`): `Number()` on a decimal token.
  * Sets `cursor.end`.
  */
 export function parseNumber(b: Uint8Array, i: number, end: number): number {
@@ -92,13 +93,21 @@ export function parseNumber(b: Uint8Array, i: number, end: number): number {
   return parseNumberSlow(b, start, end)
 }
 
-/** The whole token through `Number()` (sets `cursor.end`). */
+/**
+ * A decimal number token as the OBJ and PLY formats write them: sign, digits with an optional point,
+ * optional exponent; `Infinity` too (refused later as not finite). `Number()` alone would also take
+ * hexadecimal, binary and octal spellings (`0x10` → 16, `0b1` → 1), which no mesh writer means.
+ */
+const DECIMAL_TOKEN = /^[+-]?(?:(?:\d+\.?\d*|\.\d+)(?:[eE][+-]?\d+)?|Infinity)$/
+
+/** The whole token through `Number()` when it is a decimal token, else NaN (sets `cursor.end`). */
 function parseNumberSlow(b: Uint8Array, start: number, end: number): number {
   let j = start
   while (j < end && !isSep(b[j]!)) j++
   cursor.end = j
   if (j - start > 400) return Number.NaN
-  return Number(latin1(b, start, j))
+  const token = latin1(b, start, j)
+  return DECIMAL_TOKEN.test(token) ? Number(token) : Number.NaN
 }
 
 /** Veltkamp's splitting constant 2^27 + 1. */

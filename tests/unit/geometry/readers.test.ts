@@ -31,9 +31,20 @@ describe('OBJ reader', () => {
     const m = perturbedEllipsoid(3e3, 2e3, 1e3, 3, 4, 0.3)
     const r = readMesh(writeObj(m))
     expect(r.mesh.positions).toEqual(m.positions)
-    const odd = ['1e-300', '-0', '123456789012345678901234', '0.1e+2', '.5', '5.', '+7', '1E5', '4.9e-324', '0x10', 'Infinity']
+    const odd = ['1e-300', '-0', '123456789012345678901234', '0.1e+2', '.5', '5.', '+7', '1E5', '4.9e-324', 'Infinity']
     const t = readMesh(enc(odd.map(s => `v ${s} ${s} ${s}`).join('\n') + '\nf 1 2 3\n'))
     odd.forEach((s, i) => expect(Object.is(t.mesh.positions[3 * i], Number(s))).toBe(true))
+  })
+  it('refuses hexadecimal and binary numbers (which Number() would read as 16 and 1), naming the line', () => {
+    for (const bad of ['0x10', '0b1', '0o7']) {
+      const text = ['v 0 0 0', `v 1 ${bad} 0`, 'v 0 1 0', 'f 1 2 3'].join('\n')
+      let error: unknown
+      try { readMesh(enc(text)) }
+      catch (e) { error = e }
+      expect(error, bad).toBeInstanceOf(GeometryError)
+      expect((error as GeometryError).code).toBe('bad-number')
+      expect((error as GeometryError).issues[0]!.path).toBe('line[2]')
+    }
   })
 })
 
