@@ -124,6 +124,8 @@ export async function throttledPasswordCheck(event: H3Event, email: string, chec
       await clearSigninFailures(accountKey)
     }
     else {
+      // The wait runs from the failure's answer, not from its start (a slow check would eat it).
+      if (ids.length) await db.update(t).set({ at: new Date() }).where(inArray(t.id, ids))
       await pruneAttempts('account:', config.signinWindowMs)
       await pruneAttempts('ip:', config.signinWindowMs)
     }

@@ -263,6 +263,22 @@ describe('hardening: sessions, throttles, exports, headers, bodies, names', () =
   })
 })
 
+/** Share of pixels in the middle half of a PNG brighter than the viewer's dark background. */
+async function litFraction(page: import('playwright-core').Page, png: Buffer): Promise<number> {
+  return page.evaluate(async (b64) => {
+    const img = await createImageBitmap(new Blob([Uint8Array.from(atob(b64), ch => ch.charCodeAt(0))], { type: 'image/png' }))
+    const c = new OffscreenCanvas(img.width, img.height)
+    const g = c.getContext('2d')!
+    g.drawImage(img, 0, 0)
+    const x0 = Math.floor(img.width / 4)
+    const y0 = Math.floor(img.height / 4)
+    const d = g.getImageData(x0, y0, Math.floor(img.width / 2), Math.floor(img.height / 2)).data
+    let lit = 0
+    for (let i = 0; i < d.length; i += 4) if (d[i]! + d[i + 1]! + d[i + 2]! > 120) lit++
+    return lit / (d.length / 4)
+  }, png.toString('base64'))
+}
+
 describe('9. security headers and a CSP the pages run under (chromium)', () => {
   let server: RunningServer
   let browser: Awaited<ReturnType<typeof openBrowser>>
@@ -335,11 +351,12 @@ describe('9. security headers and a CSP the pages run under (chromium)', () => {
     }
     await visit('/', async () => { await page.locator('main').waitFor() })
     await visit('/lobes', async () => { await page.locator('main').waitFor() })
-    // The viewer draws with WebGL inside the CSP: a canvas with a live context and ink on it.
+    // The viewer draws the lobe with WebGL inside the CSP: lit pixels (not the dark background) in
+    // the middle of its canvas.
     await visit(`/lobes/${lobeId}`, async () => {
-      const canvas = page.locator('canvas').first()
+      const canvas = page.getByTestId('viewer-canvas')
       await canvas.waitFor({ timeout: 30_000 })
-      await expect.poll(() => canvas.evaluate((c: HTMLCanvasElement) => Boolean(c.getContext('webgl2') ?? c.getContext('webgl'))), { timeout: 30_000 }).toBe(true)
+      await expect.poll(async () => litFraction(page, await canvas.screenshot()), { timeout: 60_000 }).toBeGreaterThan(0.02)
     })
     // chart.js draws the study's plots.
     await visit(`/studies/${studyId}`, async () => {
