@@ -41,6 +41,7 @@ export type { PolyhedronModel, SurfaceFieldOut } from './gravity/polyhedron'
 export * from './gravity/surface'
 export * from './gravity/solid-harmonics'
 export * from './gravity/treecode'
+export * from './gravity/tree-walk'
 export * from './gravity/coefficients'
 export * from './gravity/face-fields'
 // contact search

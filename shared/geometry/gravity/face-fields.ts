@@ -16,8 +16,9 @@
 import type { TriMesh, Vec3 } from '../types'
 import { G } from '../mass/mass'
 import { preparePolyhedron, potentialAndAcceleration } from './polyhedron'
-import type { GravityTree, TreecodeScratch } from './treecode'
-import { treeLayerPotentials, treecodeScratch } from './treecode'
+import type { GravityTree } from './treecode'
+import type { TreecodeScratch } from './tree-walk'
+import { treeLayerPotentials, treecodeScratch } from './tree-walk'
 
 export const FACE_FIELD_KEYS = ['gravitationalPotential', 'effectivePotential', 'gravity', 'effectiveGravity', 'slopeDeg', 'slopeNonRotatingDeg', 'escapeSpeed', 'escapeSpeedAlongRotation'] as const
 export type FaceFieldKey = typeof FACE_FIELD_KEYS[number]
