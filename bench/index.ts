@@ -1,6 +1,6 @@
 /**
  * `npm run bench [-- name ...]`: runs the benchmark scripts one after another and prints their
- * figures. Names: geometry, api, contact, records, viewer, load (default: all). Speed and memory targets
+ * figures. Names: geometry, api, contact, records, viewer, load, jobs (default: all). Speed and memory targets
  * are checked here, never in the test suite.
  */
 const suites: Record<string, () => Promise<unknown>> = {
@@ -10,6 +10,7 @@ const suites: Record<string, () => Promise<unknown>> = {
   records: async () => (await import('./records')).runRecordsBench(),
   viewer: async () => (await import('./viewer')).runViewerBench(),
   load: async () => (await import('./load')).runLoadBench(),
+  jobs: async () => (await import('./jobs')).runJobsBench(),
 }
 const wanted = process.argv.slice(2).filter(a => !a.startsWith('-'))
 const names = wanted.length ? wanted : Object.keys(suites)
