@@ -11,19 +11,11 @@ import { spawn, spawnSync, type ChildProcess } from 'node:child_process'
 import { existsSync } from 'node:fs'
 import { ellipsoidMesh, icosphere, writePly } from '#shared/geometry'
 import { Agent } from '../tests/e2e/support/http'
-import { uploadLobe, waitForStudy } from '../tests/e2e/support/lobes'
+import { uploadLobe, waitForField, waitForStudy } from '../tests/e2e/support/lobes'
 import { startRedis } from '../tests/e2e/support/scale-out'
 import { startServer } from '../tests/e2e/support/server'
 
 const s = (ms: number) => `${(ms / 1000).toFixed(2)} s`
-
-async function waitForField(agent: Agent, id: number) {
-  for (;;) {
-    const job = (await agent.get(`/api/lobes/${id}`)).json.properties.gravityJob
-    if (!['queued', 'running'].includes(job.status)) return job
-    await new Promise(r => setTimeout(r, 200))
-  }
-}
 
 /** Posts a study and times it: until it leaves `queued` (a worker took it) and until it ends. */
 async function timedStudy(agent: Agent, body: unknown) {

@@ -7,7 +7,7 @@ import { GetObjectCommand, S3Client } from '@aws-sdk/client-s3'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { icosphere, writePly } from '#shared/geometry'
 import { Agent } from './support/http'
-import { uploadLobe, waitForStudy } from './support/lobes'
+import { uploadLobe, waitForField, waitForStudy } from './support/lobes'
 import { startRedis, startS3 } from './support/scale-out'
 import { startServer, type RunningServer } from './support/server'
 
@@ -36,17 +36,6 @@ function startWorker(env: Record<string, string>): Promise<WorkerProcess> {
     }
     check()
   })
-}
-
-async function waitForField(agent: Agent, id: number) {
-  const deadline = Date.now() + 90_000
-  for (;;) {
-    const lobe = (await agent.get(`/api/lobes/${id}`)).json
-    if (lobe.properties.gravityJob?.status === 'done' && lobe.properties.surfaceGravity) return lobe
-    if (['failed', 'cancelled'].includes(lobe.properties.gravityJob?.status)) throw new Error(`field job ${lobe.properties.gravityJob.status}: ${lobe.properties.gravityJob.error}`)
-    if (Date.now() > deadline) throw new Error('field job did not finish')
-    await new Promise(r => setTimeout(r, 150))
-  }
 }
 
 describe('the job engine past one machine: Redis (BullMQ), two worker processes, meshes in an S3-compatible store', () => {

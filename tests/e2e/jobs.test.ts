@@ -4,23 +4,10 @@ import { join } from 'node:path'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { icosphere, writePly } from '#shared/geometry'
 import { Agent } from './support/http'
-import { uploadLobe, waitForStudy } from './support/lobes'
+import { uploadLobe, waitForField, waitForStudy } from './support/lobes'
 import { startServer, type RunningServer } from './support/server'
 
 const G = 6.67430e-11 // CODATA 2018
-
-/** Polls a lobe until its surface job has finished; returns the lobe. */
-async function waitForField(agent: Agent, id: number, timeoutMs = 90_000) {
-  const deadline = Date.now() + timeoutMs
-  for (;;) {
-    const lobe = (await agent.get(`/api/lobes/${id}`)).json
-    const job = lobe.properties.gravityJob
-    if (job && !['queued', 'running'].includes(job.status) && lobe.properties.surfaceGravity) return lobe
-    if (job && ['failed', 'cancelled'].includes(job.status)) throw new Error(`surface job ${job.status}: ${job.error}`)
-    if (Date.now() > deadline) throw new Error(`surface job still ${job?.status}`)
-    await new Promise(r => setTimeout(r, 100))
-  }
-}
 
 describe('the embedded job engine: shared jobs, guarded results, fair turns, resuming after a crash', () => {
   let server: RunningServer

@@ -18,3 +18,16 @@ export async function waitForStudy(agent: Agent, id: number, timeoutMs = 90_000)
     await new Promise(r => setTimeout(r, 200))
   }
 }
+
+/** Polls a lobe until its surface job is done with fields on the lobe; throws on failure, cancel or timeout. */
+export async function waitForField(agent: Agent, id: number, timeoutMs = 90_000) {
+  const deadline = Date.now() + timeoutMs
+  for (;;) {
+    const lobe = (await agent.get(`/api/lobes/${id}`)).json
+    const job = lobe.properties.gravityJob
+    if (job?.status === 'done' && lobe.properties.surfaceGravity) return lobe
+    if (job && ['failed', 'cancelled'].includes(job.status)) throw new Error(`surface job ${job.status}: ${job.error}`)
+    if (Date.now() > deadline) throw new Error(`surface job still ${job?.status}`)
+    await new Promise(r => setTimeout(r, 100))
+  }
+}
