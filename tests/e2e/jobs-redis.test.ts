@@ -56,14 +56,13 @@ describe('the job engine past one machine: Redis (BullMQ), two worker processes,
     for (let i = 0; i < 2; i++) workers.push(await startWorker(env))
   })
   afterAll(async () => {
+    // Each part is stopped even when another fails to stop.
     for (const w of workers) {
       if (w.child.exitCode === null) w.child.kill('SIGTERM')
       rmSync(w.uploads, { recursive: true, force: true })
     }
-    await app?.dispose()
-    await embedded?.dispose()
-    await s3?.stop()
     redis?.stop()
+    await Promise.allSettled([app?.dispose(), embedded?.dispose(), s3?.stop()])
   })
 
   it('computes a study and a surface field on the workers, equal bit for bit to the embedded engine, and survives kill -9 of the worker running the study', async () => {
