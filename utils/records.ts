@@ -43,3 +43,12 @@ export const RECORD_STATE_CLASSES: Record<string, string> = {
   rejected: 'bg-red-100 text-red-800',
   superseded: 'bg-basalt-100 text-basalt-600',
 }
+
+/** Subject badges: one tint per subject so a value's subject is seen before its number. */
+export const RECORD_SUBJECT_CLASSES: Record<string, string> = {
+  'lobe-a': 'bg-ice-100 text-ice-900 ring-ice-300',
+  'lobe-b': 'bg-regolith-100 text-regolith-900 ring-regolith-300',
+  'whole-body': 'bg-basalt-100 text-basalt-900 ring-basalt-300',
+  'merged-body': 'bg-basalt-800 text-white ring-basalt-900',
+  'lobe-pair': 'bg-white text-basalt-900 ring-basalt-400',
+}

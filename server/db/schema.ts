@@ -1,6 +1,7 @@
 import { sql } from 'drizzle-orm'
 import { index, integer, real, sqliteTable, text, uniqueIndex } from 'drizzle-orm/sqlite-core'
 import type { Role } from '#shared/types/roles'
+import type { ProposalMailMode } from '#shared/types/records'
 
 const createdAt = () => integer('created_at', { mode: 'timestamp_ms' }).notNull().default(sql`(unixepoch('subsec') * 1000)`)
 
@@ -307,10 +308,13 @@ export const objectFollows = sqliteTable('object_follows', {
   createdAt: createdAt(),
 }, t => [uniqueIndex('object_follows_unique').on(t.objectId, t.userId), index('object_follows_user_idx').on(t.userId)])
 
-/** Which record mails a member gets; no row = all on. */
+/** Which record mails a member gets; no row = a mail for each proposal, decisions and comments on. */
 export const mailPreferences = sqliteTable('mail_preferences', {
   userId: integer('user_id').primaryKey().references(() => users.id),
-  proposals: integer('proposals', { mode: 'boolean' }).notNull().default(true),
+  /** Proposals (reviewers and admins): a mail for each proposed value, one daily digest, or none. */
+  proposalMail: text('proposal_mail').$type<ProposalMailMode>().notNull().default('each'),
+  /** When this member's last proposal digest was sent; the next one lists proposals made since. */
+  digestSentAt: integer('digest_sent_at', { mode: 'timestamp_ms' }),
   decisions: integer('decisions', { mode: 'boolean' }).notNull().default(true),
   comments: integer('comments', { mode: 'boolean' }).notNull().default(true),
   updatedAt: integer('updated_at', { mode: 'timestamp_ms' }).notNull().default(sql`(unixepoch('subsec') * 1000)`),

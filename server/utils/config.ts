@@ -71,6 +71,8 @@ export interface IsthmusConfig {
   taskLockMs: number
   /** S3-compatible object store for meshes and derived files; absent → the folder `uploadsDir`. */
   s3?: { endpoint: string, bucket: string, region: string, accessKeyId?: string, secretAccessKey?: string, prefix: string }
+  /** Minutes between checks for due proposal digests (daily per member); 0 turns the schedule off. */
+  recordDigestCheckMinutes: number
 }
 
 function int(name: string, fallback: number): number {
@@ -150,6 +152,7 @@ export function useConfig(): IsthmusConfig {
     redisUrl: process.env.REDIS_URL || undefined,
     taskLockMs: Math.max(2, tuning('ISTHMUS_TASK_LOCK_SECONDS', 15)) * 1000,
     s3: s3Settings(),
+    recordDigestCheckMinutes: int('ISTHMUS_RECORD_DIGEST_CHECK_MINUTES', 15),
   }
   return cached
 }

@@ -6,7 +6,7 @@
  * versions) and the date it was accepted; the value is rounded to the significant figures its
  * stated uncertainty supports, or given at full float64 precision when it states none.
  */
-import { recordInputs, recordMeshHashes, recordNumberText, recordSpreadParts, recordValueDensities, recordValueText, type RecordExport, type RecordExportValue } from '../../shared/utils/records-export'
+import { recordInputs, recordMeshHashes, recordNumberText, recordSpreadParts, recordValueDensities, recordValueText, type RecordExport, type RecordExportValue } from '#shared/utils/records-export'
 
 let engine: Promise<typeof import('@citation-js/core')> | undefined
 /**

@@ -52,7 +52,7 @@ export async function seedRecordsDemo(db: DB, members: Record<Role, number>) {
   if (!analyst) return
   const now = new Date()
   const provenance = lobeProvenance(lobe, analyst, now)
-  const rows = []
+  const rows: (typeof schema.attachments.$inferInsert)[] = []
   for (const key of ['volume', 'mass', 'J2']) {
     let q
     try {
@@ -68,9 +68,18 @@ export async function seedRecordsDemo(db: DB, members: Record<Role, number>) {
     })
   }
   if (!rows.length) return
-  const inserted = await db.insert(schema.attachments).values(rows).returning({ id: schema.attachments.id, key: schema.attachments.quantityKey })
-  await ensureLink(db, first, { lobeId: lobe.id }, 'attachment', analyst.id)
-  const volume = inserted.find(r => r.key === 'volume')
-  if (volume) await db.update(schema.attachments).set({ state: 'accepted', reviewedBy: members.reviewer, reviewedAt: now, reviewComment: 'Demo: mesh checked, volume accepted.' })
-    .where(eq(schema.attachments.id, volume.id))
+  // Seeded values go into the audit trail like any other proposal and decision (system actor, marked demo).
+  await db.transaction(async (tx) => {
+    const inserted = await tx.insert(schema.attachments).values(rows).returning({ id: schema.attachments.id, key: schema.attachments.quantityKey })
+    await ensureLink(tx, first, { lobeId: lobe.id }, 'attachment', analyst.id)
+    for (const r of inserted) {
+      await audit(null, { actorId: null, action: 'record.value-proposed', subjectType: 'attachment', subjectId: r.id, detail: { object: first, quantity: r.key, subject: 'lobe-a', lobeId: lobe.id, demo: true, proposedBy: analyst.id } }, tx)
+    }
+    const volume = inserted.find(r => r.key === 'volume')
+    if (volume) {
+      await tx.update(schema.attachments).set({ state: 'accepted', reviewedBy: members.reviewer, reviewedAt: now, reviewComment: 'Demo: mesh checked, volume accepted.' })
+        .where(eq(schema.attachments.id, volume.id))
+      await audit(null, { actorId: null, action: 'record.value-accepted', subjectType: 'attachment', subjectId: volume.id, detail: { object: first, quantity: 'volume', subject: 'lobe-a', demo: true, reviewedBy: members.reviewer } }, tx)
+    }
+  })
 }

@@ -2,7 +2,7 @@ import type { H3Event } from 'h3'
 import { and, asc, desc, eq, inArray, ne, sql } from 'drizzle-orm'
 import type { Attachment, AttachmentComment, Lobe, ObjectRecord, Study } from '../db/schema'
 import { quantityDef, RECORD_SUBJECT_LABELS, type RecordSubject } from '#shared/types/quantities'
-import type { RecordMailKind, HeliocentricOrbit } from '#shared/types/records'
+import type { RecordMailKind, HeliocentricOrbit, ProposalMailMode, RecordMailPreferences } from '#shared/types/records'
 import { idParamSchema } from '#shared/types/account'
 import { recordSpreadNote } from '#shared/utils/records-export'
 
@@ -78,19 +78,25 @@ export async function memberNames(db: DB, ids: Iterable<number | null | undefine
   return new Map(rows.map(r => [r.id, r.name]))
 }
 
-/** One timeline entry of a record's history, newest first. */
+/**
+ * One timeline entry of a record's history, newest first. The oldest entry is the record's creation
+ * (`created`, no attachment); `edited` entries come from the audit trail (fields changed).
+ */
 export interface HistoryEvent {
   at: Date
-  kind: 'proposed' | 'accepted' | 'rejected' | 'superseded' | 'comment'
-  attachmentId: number
-  quantityKey: string
-  subject: string
+  kind: 'created' | 'edited' | 'proposed' | 'accepted' | 'rejected' | 'superseded' | 'comment'
+  attachmentId: number | null
+  quantityKey: string | null
+  subject: string | null
   by: Named
   detail?: string
 }
 
-function historyOf(items: AttachmentView[], comments: ReturnType<typeof commentView>[]): HistoryEvent[] {
-  const events: HistoryEvent[] = []
+function historyOf(o: ObjectRecord, names: Map<number, string>, edits: { at: Date, by: number | null, fields: string[] }[], items: AttachmentView[], comments: ReturnType<typeof commentView>[]): HistoryEvent[] {
+  const named = (id: number | null): Named => (id === null ? null : { id, name: names.get(id) ?? `member #${id}` })
+  const none = { attachmentId: null, quantityKey: null, subject: null }
+  const events: HistoryEvent[] = [{ ...none, at: o.createdAt, kind: 'created', by: named(o.createdBy), detail: `record ${o.designation} (${o.name}) created` }]
+  for (const e of edits) events.push({ ...none, at: e.at, kind: 'edited', by: named(e.by), detail: e.fields.length ? `changed ${e.fields.join(', ')}` : undefined })
   for (const a of items) {
     const base = { attachmentId: a.id, quantityKey: a.quantityKey, subject: a.subject }
     events.push({ ...base, at: a.proposedAt, kind: 'proposed', by: a.proposedBy })
@@ -109,8 +115,10 @@ function historyOf(items: AttachmentView[], comments: ReturnType<typeof commentV
     const a = byId.get(c.attachmentId)!
     events.push({ at: c.createdAt, kind: 'comment', attachmentId: c.attachmentId, quantityKey: a.quantityKey, subject: a.subject, by: c.author, detail: c.body })
   }
-  const order = { proposed: 0, accepted: 1, rejected: 1, superseded: 2, comment: 3 }
-  return events.sort((x, y) => +y.at - +x.at || y.attachmentId - x.attachmentId || order[y.kind] - order[x.kind])
+  const order = { created: -1, edited: 0, proposed: 0, accepted: 1, rejected: 1, superseded: 2, comment: 3 }
+  // Creation stays last (oldest) even when a seeded value carries the same instant.
+  return events.sort((x, y) => (x.kind === 'created' ? 1 : 0) - (y.kind === 'created' ? 1 : 0) || +y.at - +x.at
+    || (y.attachmentId ?? 0) - (x.attachmentId ?? 0) || order[y.kind] - order[x.kind])
 }
 
 /**
@@ -122,7 +130,7 @@ function historyOf(items: AttachmentView[], comments: ReturnType<typeof commentV
 export async function loadRecord(db: DB, id: number, viewerId?: number) {
   const o = await db.select().from(schema.objects).where(eq(schema.objects.id, id)).get()
   if (!o) return undefined
-  const [rows, comments, links, followers] = await Promise.all([
+  const [rows, comments, links, followers, edits] = await Promise.all([
     db.select().from(schema.attachments).where(eq(schema.attachments.objectId, id)).orderBy(desc(schema.attachments.id)),
     db.select().from(schema.attachmentComments)
       .innerJoin(schema.attachments, eq(schema.attachments.id, schema.attachmentComments.attachmentId))
@@ -135,10 +143,12 @@ export async function loadRecord(db: DB, id: number, viewerId?: number) {
       .leftJoin(schema.studies, eq(schema.studies.id, schema.objectLinks.studyId))
       .where(eq(schema.objectLinks.objectId, id)).orderBy(asc(schema.objectLinks.id)),
     db.select({ userId: schema.objectFollows.userId }).from(schema.objectFollows).where(eq(schema.objectFollows.objectId, id)),
+    db.select({ at: schema.auditEvents.createdAt, by: schema.auditEvents.actorId, detail: schema.auditEvents.detail }).from(schema.auditEvents)
+      .where(and(eq(schema.auditEvents.action, 'record.updated'), eq(schema.auditEvents.subjectType, 'object'), eq(schema.auditEvents.subjectId, String(id)))),
   ])
-  const names = await memberNames(db, [o.createdBy, ...rows.flatMap(a => [a.proposedBy, a.reviewedBy]), ...comments.map(c => c.attachment_comments.authorId)])
-  const changes = await sourceChanges(db, rows)
-  const items = rows.map(a => ({ ...attachmentView(a, names), sourceChanges: changes.get(a.id) ?? [] }))
+  const names = await memberNames(db, [o.createdBy, ...rows.flatMap(a => [a.proposedBy, a.reviewedBy]), ...comments.map(c => c.attachment_comments.authorId), ...edits.map(e => e.by)])
+  const [changes, warnings] = await Promise.all([sourceChanges(db, rows), subjectWarnings(db, rows)])
+  const items = rows.map(a => ({ ...attachmentView(a, names), subjectWarning: warnings.get(a.id) ?? null, sourceChanges: changes.get(a.id) ?? [] }))
   const commentViews = comments.map(c => commentView(c.attachment_comments, names))
   const thread: Record<number, ReturnType<typeof commentView>[]> = {}
   for (const c of commentViews) (thread[c.attachmentId] ??= []).push(c)
@@ -153,7 +163,7 @@ export async function loadRecord(db: DB, id: number, viewerId?: number) {
     currentValues: current,
     attachments: items,
     comments: thread,
-    history: historyOf(items, commentViews),
+    history: historyOf(o, names, edits.map(e => ({ at: e.at, by: e.by, fields: Array.isArray(e.detail?.fields) ? e.detail.fields as string[] : [] })), items, commentViews),
     followerCount: followers.length,
     following: viewerId !== undefined && followers.some(f => f.userId === viewerId),
     cautions: RECORD_CAUTIONS,
@@ -298,11 +308,16 @@ export async function mailRecipients(db: DB, opts: { kind: RecordMailKind, follo
   return db.select({ id: u.id, email: u.email, name: u.name }).from(u).leftJoin(p, eq(p.userId, u.id)).where(and(...conditions))
 }
 
+/** A member's record mail choices as the account page shows them (no stored row: the defaults). */
+export function recordMailPreferences(row: { proposalMail: ProposalMailMode, decisions: boolean, comments: boolean } | undefined): RecordMailPreferences {
+  return { proposals: row?.proposalMail ?? 'each', decisions: row?.decisions ?? true, comments: row?.comments ?? true }
+}
+
 /**
  * Sends record mails one by one. A failure is logged and audited and never undoes the change that
  * caused the mail (the attachment or review is already committed).
  */
-export async function sendRecordMails(event: H3Event, to: { id: number, email: string }[], mail: { subject: string, text: string }, context: { action: string, objectId: number, attachmentIds: number[] }) {
+export async function sendRecordMails(event: H3Event | null, to: { id: number, email: string }[], mail: { subject: string, text: string }, context: { action: string, objectId: number, attachmentIds: number[] }) {
   for (const r of to) {
     try {
       await sendMail({ to: r.email, subject: mail.subject, text: mail.text })
@@ -320,7 +335,7 @@ export async function sendRecordMails(event: H3Event, to: { id: number, email: s
  * Loads a record for an export route (viewer): an export made with an API token is audited.
  * @throws 404 when the record does not exist
  */
-export async function recordForExport(event: H3Event, format: 'json' | 'csv' | 'txt') {
+export async function recordForExport(event: H3Event, format: 'json' | 'csv' | 'txt' | 'bibtex' | 'csl-json') {
   const actor = await requireRole(event, 'viewer')
   const { id } = paramsAs(event, idParamSchema)
   const data = await loadRecord(useDB(), id)

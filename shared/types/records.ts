@@ -82,26 +82,36 @@ const quantityKeys = z.array(z.string().refine(k => !!quantityDef(k), { message:
   .min(1, 'Pick at least one quantity').max(100)
   .refine(keys => new Set(keys).size === keys.length, 'Each quantity once')
 
-/** Attach from a lobe (with the subject it stands for) or from a finished study. */
-export const attachSchema = z.union([
-  z.object({
-    lobe: z.number().int().positive(),
-    subject: z.enum(RECORD_SUBJECTS).exclude([...STUDY_ONLY_SUBJECTS]).default('whole-body'),
-    quantities: quantityKeys,
-    note: z.string().trim().max(2000).default(''),
-  }).strict(),
-  z.object({
-    study: z.number().int().positive(),
-    quantities: quantityKeys,
-    note: z.string().trim().max(2000).default(''),
-  }).strict(),
-], { message: 'Give either { lobe, quantities } or { study, quantities }' })
+const SUBJECT_CHOICES = 'lobe A, lobe B, whole body, lobe pair (approach) or merged body'
+
+/**
+ * Attach values to a record: from a lobe (`lobe`) or a finished study (`study`), always with the
+ * subject the values describe — there is no default. A lobe stands for lobe A, lobe B or the whole
+ * body; a study's values describe the lobe pair (approach), the whole (joined) body or the merged
+ * body, each quantity exactly one of them (checked by the handler against the catalogue).
+ */
+export const attachSchema = z.object({
+  lobe: z.number().int().positive().optional(),
+  study: z.number().int().positive().optional(),
+  subject: z.enum(RECORD_SUBJECTS, { message: `Choose what the values describe: ${SUBJECT_CHOICES}` }),
+  quantities: quantityKeys,
+  note: z.string().trim().max(2000).default(''),
+}).strict().superRefine((v, ctx) => {
+  if ((v.lobe === undefined) === (v.study === undefined)) {
+    ctx.addIssue({ code: 'custom', path: [v.lobe === undefined ? 'lobe' : 'study'], message: 'Give either a lobe or a study, not both' })
+  }
+  if (v.lobe !== undefined && (STUDY_ONLY_SUBJECTS as readonly string[]).includes(v.subject)) {
+    ctx.addIssue({ code: 'custom', path: ['subject'], message: 'A single lobe stands for lobe A, lobe B or the whole body; lobe pair and merged body come from a study' })
+  }
+})
 export type AttachRequest = z.infer<typeof attachSchema>
 
-export const attachPreviewQuerySchema = z.union([
-  z.object({ lobe: z.coerce.number().int().positive() }).strict(),
-  z.object({ study: z.coerce.number().int().positive() }).strict(),
-], { message: 'Give ?lobe=<id> or ?study=<id>' })
+/** `?lobe=<id>` or `?study=<id>`, and optionally `object=<record id>` for a subject suggestion that knows the record. */
+export const attachPreviewQuerySchema = z.object({
+  lobe: z.coerce.number().int().positive().optional(),
+  study: z.coerce.number().int().positive().optional(),
+  object: z.coerce.number().int().positive().optional(),
+}).strict().refine(v => (v.lobe === undefined) !== (v.study === undefined), { message: 'Give ?lobe=<id> or ?study=<id>' })
 
 export const attachmentReviewSchema = z.object({
   decision: z.enum(['accept', 'reject'], { message: 'Decide accept or reject' }),
@@ -113,15 +123,65 @@ export const attachmentCommentSchema = z.object({
   body: z.string().trim().min(1, 'Write a comment').max(4000, 'Use at most 4000 characters'),
 })
 
-export const RECORD_MAIL_KINDS = ['proposals', 'decisions', 'comments'] as const
+/** Mail about proposed values (reviewers and admins, every record): each proposal, one daily digest, or none. */
+export const PROPOSAL_MAIL_MODES = ['each', 'digest', 'none'] as const
+export type ProposalMailMode = (typeof PROPOSAL_MAIL_MODES)[number]
+export const PROPOSAL_MAIL_MODE_LABELS: Record<ProposalMailMode, string> = {
+  each: 'A mail for each proposed value',
+  digest: 'One daily digest of the values proposed since the last one',
+  none: 'No mail (I use the review queue)',
+}
+
+/** Switchable record mails (on/off). */
+export const RECORD_MAIL_KINDS = ['decisions', 'comments'] as const
 export type RecordMailKind = (typeof RECORD_MAIL_KINDS)[number]
 export const RECORD_MAIL_KIND_LABELS: Record<RecordMailKind, string> = {
-  proposals: 'New values proposed on records I follow (reviewers and admins)',
   decisions: 'Decisions on values I proposed',
   comments: 'Comments on values on records I follow',
 }
 export const recordMailPreferencesSchema = z.object({
-  proposals: z.boolean(),
+  // `true` / `false` (the earlier on/off switch) still mean each / none.
+  proposals: z.union([z.enum(PROPOSAL_MAIL_MODES), z.boolean().transform(b => (b ? 'each' : 'none') as ProposalMailMode)], { message: 'Choose each, digest or none' }),
   decisions: z.boolean(),
   comments: z.boolean(),
 }).partial().refine(v => Object.keys(v).length > 0, 'Change at least one preference')
+export type RecordMailPreferences = { proposals: ProposalMailMode, decisions: boolean, comments: boolean }
+
+/** One decision of a bulk review. */
+export const reviewDecisionSchema = z.object({
+  attachmentId: z.number({ message: 'Give the attachment id' }).int().positive(),
+  decision: z.enum(['accept', 'reject'], { message: 'Decide accept or reject' }),
+}).strict()
+
+/**
+ * `POST /api/reviews`: several decisions with one comment (needed when anything is rejected). Each
+ * value is decided on its own: the caller's own proposals, unknown ids and values already decided
+ * are refused one by one with the reason, the rest go through.
+ */
+export const reviewBulkSchema = z.object({
+  decisions: z.array(reviewDecisionSchema).min(1, 'Give at least one decision').max(200, 'At most 200 decisions per request')
+    .refine(d => new Set(d.map(x => x.attachmentId)).size === d.length, 'Each attachment once'),
+  comment: z.string().trim().max(4000, 'Use at most 4000 characters').default(''),
+}).strict().refine(v => v.comment.length > 0 || v.decisions.every(d => d.decision === 'accept'), { message: 'Say why values are rejected', path: ['comment'] })
+export type ReviewBulkRequest = z.infer<typeof reviewBulkSchema>
+
+/** Age filters of the review queue, by the time a value has waited since it was proposed. */
+export const REVIEW_AGES = ['day', 'week', 'older-than-week', 'older-than-month'] as const
+export type ReviewAge = (typeof REVIEW_AGES)[number]
+export const REVIEW_AGE_LABELS: Record<ReviewAge, string> = {
+  'day': 'proposed in the last 24 h',
+  'week': 'proposed in the last 7 days',
+  'older-than-week': 'waiting more than 7 days',
+  'older-than-month': 'waiting more than 30 days',
+}
+
+/** `GET /api/reviews`: values awaiting the caller's review, oldest first. */
+export const reviewQueueQuerySchema = z.object({
+  record: z.coerce.number().int().positive().optional(),
+  quantity: z.string().max(80).refine(k => !!quantityDef(k), { message: 'Unknown quantity' }).optional(),
+  proposer: z.coerce.number().int().positive().optional(),
+  age: z.enum(REVIEW_AGES).optional(),
+  limit: z.coerce.number().int().min(1).max(200).default(50),
+  offset: z.coerce.number().int().min(0).default(0),
+})
+export type ReviewQueueQuery = z.infer<typeof reviewQueueQuerySchema>

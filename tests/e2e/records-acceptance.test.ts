@@ -95,28 +95,33 @@ describe('records acceptance: upload → study → attach → mail → review �
     expect(speed1).toBeGreaterThan(0)
     expect(Number.isFinite(j2)).toBe(true)
 
-    // 3. A record; the reviewer follows it before anything is proposed, so the proposal mail goes out.
+    // 3. A record; reviewers get a mail for each proposal whether or not they follow it.
     const created = await as.analyst.post('/api/objects', { designation: '2061 AC4', name: 'Acceptance pair', population: 'kuiper-belt' })
     expect(created.status, created.text).toBe(201)
     const recordId: number = created.json.id
     expect((await as.reviewer.post(`/api/objects/${recordId}/follow`)).json).toEqual({ following: true })
 
     // 4. The analyst attaches the contact speed and the merged J2 (keys from shared/types/quantities.ts).
-    const attached = await as.analyst.post(`/api/objects/${recordId}/attachments`, { study: study1.id, quantities: ['contact.speed', 'merged.J2'] })
-    expect(attached.status, attached.text).toBe(201)
-    const byKey = Object.fromEntries(attached.json.items.map((a: any) => [a.quantityKey, a]))
+    // Each is proposed with the subject it describes: the approaching pair, the merged body.
+    const attachedPair = await as.analyst.post(`/api/objects/${recordId}/attachments`, { study: study1.id, subject: 'lobe-pair', quantities: ['contact.speed'] })
+    expect(attachedPair.status, attachedPair.text).toBe(201)
+    const attachedMerged = await as.analyst.post(`/api/objects/${recordId}/attachments`, { study: study1.id, subject: 'merged-body', quantities: ['merged.J2'] })
+    expect(attachedMerged.status, attachedMerged.text).toBe(201)
+    const byKey = Object.fromEntries([...attachedPair.json.items, ...attachedMerged.json.items].map((a: any) => [a.quantityKey, a]))
     const speedAtt = byKey['contact.speed']
     const j2Att = byKey['merged.J2']
     expect(speedAtt).toMatchObject({ value: speed1, unit: 'm s⁻¹', subject: 'lobe-pair', state: 'proposed' })
     expect(j2Att).toMatchObject({ value: j2, unit: '1', subject: 'merged-body', referenceRadius: study1.result.merged.referenceRadius, state: 'proposed' })
 
     // 5. The reviewer's notice, received by the embedded SMTP server and read from the mail drop.
-    const notice = await mailTo('reviewer@example.org', /proposed for 2061 AC4/)
-    expect(notice.subject).toBe('[Isthmus] 2 values proposed for 2061 AC4')
-    expect(notice.text).toContain(`#${speedAtt.id} Contact speed`)
+    // One mail per proposed value, the subject first.
+    const notice = await mailTo('reviewer@example.org', /Review 2061 AC4 — lobe pair/)
+    expect(notice.subject).toBe(`[Isthmus] Review 2061 AC4 — lobe pair (approach): Contact speed (#${speedAtt.id})`)
+    expect(notice.text).toContain(`#${speedAtt.id} [LOBE PAIR (APPROACH)] Contact speed`)
     expect(notice.text).toContain(`${significantText(speed1, 6)} m s⁻¹`) // 6 digits in mails; full precision on the page
-    expect(notice.text).toContain(`#${j2Att.id} Merged J2`)
     expect(notice.text).toContain(`/objects/${recordId}`)
+    const notice2 = await mailTo('reviewer@example.org', /Review 2061 AC4 — merged body/)
+    expect(notice2.text).toContain(`#${j2Att.id} [MERGED BODY] Merged J2`)
 
     // 6. Accept one, reject the other with a comment; the analyst hears of both.
     const ok = await as.reviewer.post(`/api/attachments/${speedAtt.id}/review`, { decision: 'accept', comment: 'Head-on parabolic case checked.' })
@@ -164,7 +169,7 @@ describe('records acceptance: upload → study → attach → mail → review �
     // Same lobes, direction and contact distance d: vis-viva gives v² = v∞² + 2GM/d (docs/contact-and-kinematics.md),
     // so v₂² − v₁² = v∞² exactly up to rounding.
     expect(Math.abs(speed2 ** 2 - speed1 ** 2 - vInf ** 2) / speed2 ** 2).toBeLessThan(1e-9)
-    const second = await as.analyst.post(`/api/objects/${recordId}/attachments`, { study: study2.id, quantities: ['contact.speed'] })
+    const second = await as.analyst.post(`/api/objects/${recordId}/attachments`, { study: study2.id, subject: 'lobe-pair', quantities: ['contact.speed'] })
     expect(second.status, second.text).toBe(201)
     const speed2Att = second.json.items[0]
     const ok2 = await as.reviewer.post(`/api/attachments/${speed2Att.id}/review`, { decision: 'accept', comment: 'Hyperbolic case supersedes.' })

@@ -30,7 +30,8 @@ describe('in a real browser: create a record, attach from a lobe, review, read t
     await page.getByLabel('E-mail').fill(email)
     await page.getByLabel('Password').fill('isthmus-demo')
     await page.getByRole('button', { name: 'Sign in' }).click()
-    await page.waitForURL(new RegExp(next.replace(/[/?]/g, c => `\\${c}`)))
+    // (the sign-in page's own address carries `next`, so wait for leaving it, not for `next` to appear)
+    await page.waitForURL(u => !u.pathname.startsWith('/sign-in'))
     return page
   }
 
@@ -111,10 +112,15 @@ describe('in a real browser: create a record, attach from a lobe, review, read t
     const dialog = page.getByRole('dialog')
     await expect.poll(() => dialog.locator('select[name="record"] option').allInnerTexts()).toContain('2052 BW7 — Browser pair')
     await dialog.locator('select[name="record"]').selectOption({ label: '2052 BW7 — Browser pair' })
+    // No subject yet: nothing can be picked or proposed.
+    expect(await dialog.getByLabel('Surface area').isDisabled()).toBe(true)
+    await dialog.locator('select[name="subject"]').selectOption('whole-body')
     await dialog.getByLabel('Surface area').check()
     const before = (await as.analyst.get(`/api/objects/${rec.id}`)).json.attachments.length
     await dialog.getByRole('button', { name: /Propose 1 value/ }).dblclick()
-    await expect.poll(() => dialog.getByTestId('attach-done').innerText()).toMatch(/Proposed 1 value for 2052 BW7[\s\S]*Surface area \(whole body\)/)
+    await expect.poll(() => dialog.getByTestId('attach-done').innerText()).toMatch(/Proposed 1 value for 2052 BW7[\s\S]*Surface area\s+whole body/i)
+    // a second lobe filed as the whole body of a record that already has one: the reviewer is warned
+    expect(await dialog.getByTestId('attach-done').getByTestId('subject-warning').innerText()).toMatch(/filed as the whole body, but this record has two lobes/)
     expect(await dialog.getByLabel('Surface area').isChecked()).toBe(false)
     expect(await dialog.getByRole('button', { name: /Propose/ }).isDisabled()).toBe(true)
     const after = (await as.analyst.get(`/api/objects/${rec.id}`)).json.attachments
@@ -142,11 +148,14 @@ describe('in a real browser: create a record, attach from a lobe, review, read t
             values ((select id from users where email = 'analyst@example.org'), ?, ?, 'spread check', '{}', 'kb1', 'done', 1, ?, 'test', ?) returning id`,
       args: [lobes[0].id, lobes[1]?.id ?? lobes[0].id, JSON.stringify(result), Date.now()],
     })
-    const attached = await as.analyst.post(`/api/objects/${rec.id}/attachments`, { study: Number(ins.rows[0]![0]), quantities: ['contact.escapeSpeed', 'merged.spinPeriod'] })
-    expect(attached.status, attached.text).toBe(201)
+    const studyId = Number(ins.rows[0]![0])
+    const attachedEsc = await as.analyst.post(`/api/objects/${rec.id}/attachments`, { study: studyId, subject: 'lobe-pair', quantities: ['contact.escapeSpeed'] })
+    const attachedSpin = await as.analyst.post(`/api/objects/${rec.id}/attachments`, { study: studyId, subject: 'merged-body', quantities: ['merged.spinPeriod'] })
+    expect([attachedEsc.status, attachedSpin.status], attachedEsc.text + attachedSpin.text).toEqual([201, 201])
     const page = await signIn('analyst@example.org', `/objects/${rec.id}`)
-    const [esc, spin] = attached.json.items.map((a: any) => page.locator(`[data-proposed="${a.id}"]`))
-    await expect.poll(() => esc!.innerText()).toContain('lobe pair (approach) = 3.32688 m s⁻¹ (study spread over sampled inputs: median 4.07259, mean 4.073, σ 0.517743, range [3.07, 5.22], n 40)')
+    const [esc, spin] = [attachedEsc.json.items[0], attachedSpin.json.items[0]].map((a: any) => page.locator(`[data-proposed="${a.id}"]`))
+    await expect.poll(() => esc!.innerText()).toMatch(/lobe pair \(approach\)/i)
+    expect(await esc!.innerText()).toContain('Mutual escape speed at contact = 3.32688 m s⁻¹ (study spread over sampled inputs: median 4.07259, mean 4.073, σ 0.517743, range [3.07, 5.22], n 40)')
     expect(await esc!.getByTestId('spread-note').innerText()).toMatch(/not centred on the nominal value: its centre 4\.07259 m s⁻¹ lies 0\.74571 m s⁻¹ above it, 1\.44σ/)
     // 42882.7 s = 11.9119 h (÷ 3600); the exact stored seconds stay in the title.
     expect(await spin!.getByTestId('value-text').innerText()).toBe('11.9119 h')

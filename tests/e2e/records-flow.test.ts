@@ -30,7 +30,7 @@ describe('upload → study → attach → review → export, through the public 
     const preview = (await as.analyst.get(`/api/attachments/preview?study=${study.id}`)).json
     const speedPreview = preview.items.find((i: any) => i.key === 'contact.speed')
     expect(speedPreview).toMatchObject({ available: true, value: study.result.contact.speed })
-    const fromStudy = await as.analyst.post(`/api/objects/${record}/attachments`, { study: study.id, quantities: ['contact.speed', 'contact.escapeSpeed'] })
+    const fromStudy = await as.analyst.post(`/api/objects/${record}/attachments`, { study: study.id, subject: 'lobe-pair', quantities: ['contact.speed', 'contact.escapeSpeed'] })
     expect(fromStudy.status, fromStudy.text).toBe(201)
     const fromA = await as.analyst.post(`/api/objects/${record}/attachments`, { lobe: a.id, subject: 'lobe-a', quantities: ['mass', 'equivalentRadius'] })
     const fromB = await as.analyst.post(`/api/objects/${record}/attachments`, { lobe: b.id, subject: 'lobe-b', quantities: ['mass', 'equivalentRadius'] })

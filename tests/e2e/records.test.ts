@@ -157,11 +157,11 @@ describe('object records: attach, review, supersede, export, mail', () => {
     expect((await as.viewer.get('/api/objects?limit=0')).status).toBe(422)
   })
 
-  it('previews and attaches lobe values as frozen snapshots with provenance, and mails following reviewers only', async () => {
+  it('previews and attaches lobe values as frozen snapshots with provenance, and mails reviewers who want each proposal', async () => {
     expect((await as.reviewer.post(`/api/objects/${recordId}/follow`)).json).toEqual({ following: true })
-    // The second reviewer follows but turned proposal mails off.
+    // The second reviewer turned proposal mails off.
     expect((await reviewer2.post(`/api/objects/${recordId}/follow`)).status).toBe(200)
-    expect((await reviewer2.patch('/api/account/record-mail', { proposals: false })).json).toEqual({ proposals: false, decisions: true, comments: true })
+    expect((await reviewer2.patch('/api/account/record-mail', { proposals: false })).json).toEqual({ proposals: 'none', decisions: true, comments: true })
 
     const preview = await as.analyst.get(`/api/attachments/preview?lobe=${lobeDense.id}`)
     expect(preview.status).toBe(200)
@@ -185,7 +185,8 @@ describe('object records: attach, review, supersede, export, mail', () => {
     expect(byKey.volume.value).toBeCloseTo(1e9, -1)
     expect(byKey.mass.value / byKey.volume.value).toBeCloseTo(1500, 9)
 
-    const mail = await latestMailTo(as.admin, 'reviewer@example.org')
+    // one mail per proposed value, the subject first
+    const mail = await latestMailTo(as.admin, 'reviewer@example.org', 5000, m => / — lobe A: Mass \(#\d+\)$/.test(m.subject))
     expect(mail.subject).toContain('2047 RZ3')
     // 6 significant digits in the mail, full precision on the record page and in its exports
     expect(mail.text).toContain(significantText(lobeDense.properties.mass, 6))
@@ -199,18 +200,18 @@ describe('object records: attach, review, supersede, export, mail', () => {
   })
 
   it('refuses quantities of the wrong source, unknown keys, unknown lobes and unfinished studies with 422', async () => {
-    const wrong = await as.analyst.post(`/api/objects/${recordId}/attachments`, { lobe: lobeDense.id, quantities: ['contact.speed'] })
+    const wrong = await as.analyst.post(`/api/objects/${recordId}/attachments`, { lobe: lobeDense.id, subject: 'lobe-a', quantities: ['contact.speed'] })
     expect(wrong.status).toBe(422)
     expect(wrong.json.data.issues[0].path).toBe('quantities.0')
-    expect((await as.analyst.post(`/api/objects/${recordId}/attachments`, { lobe: lobeDense.id, quantities: ['nope'] })).status).toBe(422)
-    expect((await as.analyst.post(`/api/objects/${recordId}/attachments`, { lobe: 99_999_999, quantities: ['mass'] })).status).toBe(422)
+    expect((await as.analyst.post(`/api/objects/${recordId}/attachments`, { lobe: lobeDense.id, subject: 'lobe-a', quantities: ['nope'] })).status).toBe(422)
+    expect((await as.analyst.post(`/api/objects/${recordId}/attachments`, { lobe: 99_999_999, subject: 'lobe-a', quantities: ['mass'] })).status).toBe(422)
     expect((await as.analyst.post(`/api/objects/${recordId}/attachments`, { lobe: lobeDense.id, study: studyId, quantities: ['mass'] })).status).toBe(422)
     const queued = await server.sql().execute({ sql: `insert into studies (owner_id, lobe_a_id, lobe_b_id, input, cache_key, status, algorithm_version) values (?, ?, ?, '{}', 'k2', 'queued', 'v') returning id`, args: [ids.analyst, lobeDense.id, lobeOther.id] })
-    const notDone = await as.analyst.post(`/api/objects/${recordId}/attachments`, { study: Number(queued.rows[0]![0]), quantities: ['contact.speed'] })
+    const notDone = await as.analyst.post(`/api/objects/${recordId}/attachments`, { study: Number(queued.rows[0]![0]), subject: 'lobe-pair', quantities: ['contact.speed'] })
     expect(notDone.status).toBe(422)
     expect(notDone.json.data.code).toBe('study-not-done')
     expect((await as.reviewer.post(`/api/objects/${recordId}/attachments`, { lobe: lobeDense.id, quantities: ['mass'] })).status).toBe(403)
-    expect((await as.analyst.post(`/api/objects/99999999/attachments`, { lobe: lobeDense.id, quantities: ['mass'] })).status).toBe(404)
+    expect((await as.analyst.post(`/api/objects/99999999/attachments`, { lobe: lobeDense.id, subject: 'lobe-a', quantities: ['mass'] })).status).toBe(404)
   })
 
   it('refuses (409) a value identical to one still awaiting review, even from two requests at once, and stores nothing', async () => {
@@ -289,7 +290,7 @@ describe('object records: attach, review, supersede, export, mail', () => {
     const lobe = await uploadLobe(as.analyst, writeObj(boxMesh(1, 2, 1)), 'drifting.obj', { density: '1000', units: 'km' })
     expect(lobe.status, lobe.text).toBe(201)
     const own = await as.analyst.post('/api/objects', { designation: 'ZZ-DRIFT', name: 'Drift' })
-    const att = await as.analyst.post(`/api/objects/${own.json.id}/attachments`, { lobe: lobe.json.id, quantities: ['mass'] })
+    const att = await as.analyst.post(`/api/objects/${own.json.id}/attachments`, { lobe: lobe.json.id, subject: 'whole-body', quantities: ['mass'] })
     expect(att.status, att.text).toBe(201)
     const before = (await as.viewer.get(`/api/objects/${own.json.id}`)).json.attachments[0]
     expect(before.sourceChanges).toEqual([])
@@ -392,8 +393,15 @@ describe('object records: attach, review, supersede, export, mail', () => {
   })
 
   it('attaches study values with spread, and exports JSON = record page data, CSV at full precision, citation text', async () => {
-    const res = await as.analyst.post(`/api/objects/${recordId}/attachments`, { study: studyId, quantities: ['contact.speed', 'contact.escapeSpeed', 'merged.J2', 'merged.spinPeriod'] })
-    expect(res.status, res.text).toBe(201)
+    const pair = await as.analyst.post(`/api/objects/${recordId}/attachments`, { study: studyId, subject: 'lobe-pair', quantities: ['contact.speed', 'contact.escapeSpeed'] })
+    expect(pair.status, pair.text).toBe(201)
+    // A study quantity must be proposed with the subject it describes.
+    const mixed = await as.analyst.post(`/api/objects/${recordId}/attachments`, { study: studyId, subject: 'merged-body', quantities: ['merged.J2', 'contact.speedRatio'] })
+    expect(mixed.status).toBe(422)
+    expect(mixed.json.data.issues).toEqual([{ path: 'quantities.1', message: expect.stringMatching(/describes the lobe pair \(approach\), not the merged body/) }])
+    const merged = await as.analyst.post(`/api/objects/${recordId}/attachments`, { study: studyId, subject: 'merged-body', quantities: ['merged.J2', 'merged.spinPeriod'] })
+    expect(merged.status, merged.text).toBe(201)
+    const res = { json: { items: [...pair.json.items, ...merged.json.items] } }
     const byKey = Object.fromEntries(res.json.items.map((a: any) => [a.quantityKey, a]))
     // Contact kinematics describe the approaching pair, not the joined body.
     expect(byKey['contact.escapeSpeed']).toMatchObject({ subject: 'lobe-pair', subjectLabel: 'lobe pair (approach)' })
@@ -535,7 +543,7 @@ describe('object records when mail cannot be sent', () => {
     await sql.execute({ sql: 'insert into object_follows (object_id, user_id) values (?, ?)', args: [rid, reviewerId] })
     const lobe = await uploadLobe(admin, writeObj(boxMesh(1, 1, 1)), 'cube.obj', { density: '1000', units: 'km' })
     expect(lobe.status, lobe.text).toBe(201)
-    const res = await admin.post(`/api/objects/${rid}/attachments`, { lobe: lobe.json.id, quantities: ['mass'] })
+    const res = await admin.post(`/api/objects/${rid}/attachments`, { lobe: lobe.json.id, subject: 'whole-body', quantities: ['mass'] })
     expect(res.status, res.text).toBe(201)
     const id = res.json.items[0].id
     const failures = async () => Number((await sql.execute({ sql: `select count(*) from audit_events where action = 'record.mail-failed' and subject_id = ?`, args: [String(rid)] })).rows[0]![0])

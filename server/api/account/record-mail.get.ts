@@ -1,8 +1,7 @@
 import { eq } from 'drizzle-orm'
 
-/** Which record mails the signed-in member gets (no stored row = all on). */
+/** Which record mails the signed-in member gets: proposals `each` | `digest` | `none`, decisions and comments on/off. */
 export default defineEventHandler(async (event) => {
   const actor = await requireRole(event, 'viewer')
-  const row = await useDB().select().from(schema.mailPreferences).where(eq(schema.mailPreferences.userId, actor.id)).get()
-  return { proposals: row?.proposals ?? true, decisions: row?.decisions ?? true, comments: row?.comments ?? true }
+  return recordMailPreferences(await useDB().select().from(schema.mailPreferences).where(eq(schema.mailPreferences.userId, actor.id)).get())
 })

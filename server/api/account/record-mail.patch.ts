@@ -1,9 +1,10 @@
 import { recordMailPreferencesSchema } from '#shared/types/records'
 
-/** Turn record mails on or off, per kind: proposals, decisions, comments. */
+/** Change record mails: `proposals` each | digest | none (true / false still mean each / none), `decisions`, `comments` on/off. */
 export default defineEventHandler(async (event) => {
   const actor = await requireRole(event, 'viewer')
-  const change = await readBodyAs(event, recordMailPreferencesSchema)
+  const { proposals, ...rest } = await readBodyAs(event, recordMailPreferencesSchema)
+  const change = { ...rest, ...(proposals === undefined ? {} : { proposalMail: proposals }) }
   const row = await useDB().transaction(async (tx) => {
     const [saved] = await tx.insert(schema.mailPreferences).values({ userId: actor.id, ...change })
       .onConflictDoUpdate({ target: schema.mailPreferences.userId, set: { ...change, updatedAt: new Date() } })
@@ -11,5 +12,5 @@ export default defineEventHandler(async (event) => {
     await audit(event, { actorId: actor.id, action: 'record.mail-preferences-changed', subjectType: 'user', subjectId: actor.id, detail: change }, tx)
     return saved
   })
-  return { proposals: row!.proposals, decisions: row!.decisions, comments: row!.comments }
+  return recordMailPreferences(row)
 })

@@ -12,8 +12,13 @@ export const RECORD_ROUTE_ACCESS: Record<string, Access> = {
   'GET /api/objects/:id/export.json': 'viewer',
   'GET /api/objects/:id/export.csv': 'viewer',
   'GET /api/objects/:id/export.txt': 'viewer',
+  'GET /api/objects/:id/export.bib': 'viewer',
+  'GET /api/objects/:id/export.csl.json': 'viewer',
   'GET /api/attachments/preview': 'viewer',
   'POST /api/attachments/:id/review': 'reviewer',
+  'GET /api/reviews': 'reviewer',
+  'POST /api/reviews': 'reviewer',
+  'POST /api/reviews/digest': 'admin',
   // Any member reads the discussion; reviewers and analysts (and admins) write in it, viewers do not.
   'GET /api/attachments/:id/comments': 'viewer',
   'POST /api/attachments/:id/comments': ['analyst', 'reviewer'],

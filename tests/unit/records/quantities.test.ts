@@ -83,12 +83,19 @@ describe('record form schemas', () => {
     expect(objectCreateSchema.safeParse({ designation: '<script>', name: 'x' }).success).toBe(false)
   })
 
-  it('takes either a lobe or a study, with known quantity keys only', () => {
-    expect(attachSchema.parse({ lobe: 1, quantities: ['mass'] })).toMatchObject({ lobe: 1, subject: 'whole-body' })
+  it('takes either a lobe or a study, an explicit subject (no default) and known quantity keys only', () => {
+    expect(attachSchema.parse({ lobe: 1, subject: 'lobe-a', quantities: ['mass'] })).toMatchObject({ lobe: 1, subject: 'lobe-a' })
+    // No subject: refused, naming the field.
+    const bare = attachSchema.safeParse({ lobe: 1, quantities: ['mass'] })
+    expect(bare.success).toBe(false)
+    expect(bare.error!.issues.map(i => i.path.join('.'))).toEqual(['subject'])
+    expect(bare.error!.issues[0]!.message).toMatch(/lobe A, lobe B, whole body/)
+    expect(attachSchema.safeParse({ study: 2, quantities: ['merged.J2'] }).error!.issues.map(i => i.path.join('.'))).toEqual(['subject'])
     expect(attachSchema.safeParse({ lobe: 1, subject: 'merged-body', quantities: ['mass'] }).success).toBe(false)
-    expect(attachSchema.safeParse({ lobe: 1, study: 2, quantities: ['mass'] }).success).toBe(false)
-    expect(attachSchema.safeParse({ study: 2, quantities: ['nope'] }).success).toBe(false)
-    expect(attachSchema.safeParse({ study: 2, quantities: ['merged.J2', 'merged.J2'] }).success).toBe(false)
+    expect(attachSchema.safeParse({ lobe: 1, study: 2, subject: 'lobe-a', quantities: ['mass'] }).success).toBe(false)
+    expect(attachSchema.safeParse({ subject: 'lobe-a', quantities: ['mass'] }).success).toBe(false)
+    expect(attachSchema.safeParse({ study: 2, subject: 'merged-body', quantities: ['nope'] }).success).toBe(false)
+    expect(attachSchema.safeParse({ study: 2, subject: 'merged-body', quantities: ['merged.J2', 'merged.J2'] }).success).toBe(false)
   })
 })
 
