@@ -20,12 +20,12 @@ export const useSessionStore = defineStore('session', {
   actions: {
     async refresh() {
       // During SSR the browser's cookie is forwarded so the server sees the same member.
-      const { user } = await $fetch<{ user: SessionMember | null }>('/api/session', { headers: useRequestHeaders(['cookie']) })
+      const { user } = await $fetch('/api/session', { headers: useRequestHeaders(['cookie']) })
       this.member = user
       this.loaded = true
     },
     async signIn(email: string, password: string) {
-      const { user } = await $fetch<{ user: SessionMember }>('/api/session', { method: 'POST', body: { email, password } })
+      const { user } = await $fetch('/api/session', { method: 'POST', body: { email, password } })
       this.member = user
     },
     async signOut() {

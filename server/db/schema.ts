@@ -2,6 +2,8 @@ import { sql } from 'drizzle-orm'
 import { index, integer, real, sqliteTable, text, uniqueIndex } from 'drizzle-orm/sqlite-core'
 import type { Role } from '#shared/types/roles'
 import type { ProposalMailMode } from '#shared/types/records'
+import type { LobeReport, SurfaceSummary } from '#shared/types/lobes'
+import type { StoredStudyInput, StudyResult } from '#shared/types/studies'
 
 const createdAt = () => integer('created_at', { mode: 'timestamp_ms' }).notNull().default(sql`(unixepoch('subsec') * 1000)`)
 
@@ -125,11 +127,11 @@ export const lobes = sqliteTable('lobes', {
   vertexCount: integer('vertex_count').notNull(),
   faceCount: integer('face_count').notNull(),
   warnings: text('warnings', { mode: 'json' }).$type<{ code: string, message: string }[]>().notNull(),
-  report: text('report', { mode: 'json' }).$type<Record<string, unknown>>().notNull(),
+  report: text('report', { mode: 'json' }).$type<LobeReport>().notNull(),
   /** Mass properties at `density` (SI), as the core computed them. */
   properties: text('properties', { mode: 'json' }).$type<Record<string, unknown>>().notNull(),
   /** Surface-field summary once its job is done. */
-  surface: text('surface', { mode: 'json' }).$type<Record<string, unknown> | null>(),
+  surface: text('surface', { mode: 'json' }).$type<SurfaceSummary | null>(),
   /** The job whose result `surface` takes (jobs.id; shared by lobes with identical inputs); only it may write `surface`. */
   surfaceJobId: integer('surface_job_id'),
   algorithmVersion: text('algorithm_version').notNull(),
@@ -175,14 +177,14 @@ export const studies = sqliteTable('studies', {
   lobeBId: integer('lobe_b_id').notNull().references(() => lobes.id),
   title: text('title'),
   /** The validated request body, SI units. */
-  input: text('input', { mode: 'json' }).$type<Record<string, unknown>>().notNull(),
+  input: text('input', { mode: 'json' }).$type<StoredStudyInput>().notNull(),
   /** sha256 of (mesh hashes, inputs, algorithm version): equal keys reuse a result. */
   cacheKey: text('cache_key').notNull(),
   status: text('status').$type<JobStatus>().notNull().default('queued'),
   progress: real('progress').notNull().default(0),
   stage: text('stage'),
   error: text('error'),
-  result: text('result', { mode: 'json' }).$type<Record<string, unknown> | null>(),
+  result: text('result', { mode: 'json' }).$type<StudyResult | null>(),
   algorithmVersion: text('algorithm_version').notNull(),
   /** The job computing it (jobs.id; shared by studies with the same cache key). */
   jobId: integer('job_id'),

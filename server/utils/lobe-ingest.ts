@@ -1,6 +1,7 @@
 import { rm } from 'node:fs/promises'
 import { asc, eq } from 'drizzle-orm'
 import { ALGORITHM_VERSION } from '#shared/utils/version'
+import type { LobeOrigin, LobeReport } from '#shared/types/lobes'
 import { sameFileWarning, sizeCheckWarning } from '#shared/utils/lobe-checks'
 import type { AnalyseResult } from '../workers/mesh-tasks'
 import { normaliseFileName } from '#shared/utils/names'
@@ -22,7 +23,7 @@ export interface IngestInput {
   /** Warnings the caller adds to the mesh report's own (e.g. what a derived lobe leaves out). */
   extraWarnings?: { code: string, message: string }[]
   /** Where a derived lobe came from (e.g. `{ kind: 'cut', lobeId, ... }`), kept as `report.origin`. */
-  origin?: Record<string, unknown>
+  origin?: LobeOrigin
 }
 
 /**
@@ -84,8 +85,9 @@ export async function ingestLobe(input: IngestInput) {
     vertexCount: analysed.report.vertexCount,
     faceCount: analysed.report.faceCount,
     warnings: [...analysed.report.warnings, ...checks, ...(input.extraWarnings ?? [])],
+    // The worker's report is the core's ValidationReport without the per-face origin map.
     report: {
-      ...analysed.report, sourceFaceCount: analysed.sourceFaceCount, triangulatedPolygons: analysed.triangulatedPolygons, timingsMs: analysed.timings,
+      ...analysed.report as unknown as LobeReport, sourceFaceCount: analysed.sourceFaceCount, triangulatedPolygons: analysed.triangulatedPolygons, timingsMs: analysed.timings,
       ...(earlier.length ? { sameFile: earlier } : {}),
       ...(input.origin ? { origin: input.origin } : {}),
     },

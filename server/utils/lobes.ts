@@ -14,21 +14,7 @@ export function displayFaceBudget() {
   return useConfig().displayFaces
 }
 
-export interface SurfaceSummary {
-  evaluation: { surface: 'mesh' | 'simplified', points: number, meshFaces: number }
-  surfaceGravity: { min: number, max: number, mean: number }
-  slopeDeg: { min: number, max: number, mean: number }
-  geopotentialHeight: { min: number, max: number, mean: number }
-  escapeSpeedSurface: { min: number, max: number, mean: number }
-  spin: { periodHours: number, axis: Vec3 } | null
-  /**
-   * Where the slope exceeds 90° the net of gravity and the spin's centrifugal acceleration points
-   * away from the surface: loose material there lifts off. Area-weighted fraction (0..1) and the
-   * number of evaluation points; absent in summaries written before it was computed.
-   */
-  liftOff?: { areaFraction: number, points: number }
-  fieldsFile: string
-}
+export type { SurfaceSummary } from '#shared/types/lobes'
 
 /** Slope beyond which the net acceleration points off the surface, degrees. */
 export const LIFT_OFF_SLOPE_DEG = 90
@@ -78,9 +64,9 @@ function gravityJobView(job: (Job & { queuePosition?: number }) | undefined) {
 }
 
 /** The API's view of a lobe (names are a contract: see the issue and the OpenAPI document). */
-export function lobeView(lobe: Lobe, job?: Job & { queuePosition?: number }, owner?: { id: number, name: string }) {
+export function lobeView(lobe: Lobe, job?: Job & { queuePosition?: number }, owner?: { id: number, name?: string }) {
   const p = lobe.properties as unknown as MassProperties
-  const surface = lobe.surface as unknown as SurfaceSummary | null
+  const surface = lobe.surface
   return {
     id: lobe.id,
     name: lobe.name,
@@ -91,7 +77,7 @@ export function lobeView(lobe: Lobe, job?: Job & { queuePosition?: number }, own
     vertexCount: lobe.vertexCount,
     faceCount: lobe.faceCount,
     warnings: lobe.warnings,
-    owner: owner ?? { id: lobe.ownerId },
+    owner: owner ?? { id: lobe.ownerId } as { id: number, name?: string },
     createdAt: lobe.createdAt,
     algorithmVersion: lobe.algorithmVersion,
     spinPeriodHours: lobe.spinPeriodHours,
@@ -269,7 +255,7 @@ export const surfaceFieldJob: JobKind = {
 
 /** Reads the per-face fields written by the lobe's finished surface job, or null. */
 export async function readFields(lobe: Lobe) {
-  const surface = lobe.surface as unknown as SurfaceSummary | null
+  const surface = lobe.surface
   if (!surface?.fieldsFile) return null
   const store = await useMeshStore()
   const key = derivedKey(surface.fieldsFile)

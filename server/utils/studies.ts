@@ -13,6 +13,11 @@ export function studyMeshKeys(cacheKey: string) {
   return { analysis: derivedKey(`union-${cacheKey}.analysis.bin`), display: derivedKey(`union-${cacheKey}.display.bin`) }
 }
 
+/** A lobe a study names: its id, with name and content hash when they were loaded. */
+function lobeRef(id: number, lobe?: Pick<Lobe, 'id' | 'name' | 'sha256'>): { id: number, name?: string, sha256?: string } {
+  return lobe ? { id: lobe.id, name: lobe.name, sha256: lobe.sha256 } : { id }
+}
+
 /** The study as the API shows it (`result` keys are a contract: see the OpenAPI document). */
 export function studyView(s: Study, lobes: { a?: Pick<Lobe, 'id' | 'name' | 'sha256'>, b?: Pick<Lobe, 'id' | 'name' | 'sha256'> } = {}, ownerName?: string) {
   return {
@@ -23,8 +28,8 @@ export function studyView(s: Study, lobes: { a?: Pick<Lobe, 'id' | 'name' | 'sha
     stage: s.stage,
     error: s.error,
     owner: { id: s.ownerId, name: ownerName },
-    lobeA: lobes.a ? { id: lobes.a.id, name: lobes.a.name, sha256: lobes.a.sha256 } : { id: s.lobeAId },
-    lobeB: lobes.b ? { id: lobes.b.id, name: lobes.b.name, sha256: lobes.b.sha256 } : { id: s.lobeBId },
+    lobeA: lobeRef(s.lobeAId, lobes.a),
+    lobeB: lobeRef(s.lobeBId, lobes.b),
     input: s.input,
     result: s.result,
     algorithmVersion: s.algorithmVersion,
@@ -52,7 +57,7 @@ export async function createStudy(db: DB, ownerId: number, a: Lobe, b: Lobe, raw
   const cacheKey = studyCacheKey(a, b, input)
   const cached = await db.select().from(schema.studies).where(and(eq(schema.studies.cacheKey, cacheKey), eq(schema.studies.status, 'done'))).orderBy(desc(schema.studies.id)).get()
   const [row] = await db.insert(schema.studies).values({
-    ownerId, lobeAId: a.id, lobeBId: b.id, title: input.title, input: input as unknown as Record<string, unknown>, cacheKey, algorithmVersion: STUDY_ALGORITHM_VERSION,
+    ownerId, lobeAId: a.id, lobeBId: b.id, title: input.title, input, cacheKey, algorithmVersion: STUDY_ALGORITHM_VERSION,
     ...(cached ? { status: 'done' as const, progress: 1, stage: 'reused an identical earlier result', result: cached.result, startedAt: new Date(), finishedAt: new Date() } : { stage: 'queued: waiting for a free worker' }),
   }).returning()
   if (cached) return row!
@@ -72,7 +77,7 @@ export const studyJob: JobKind = {
     if (!study) throw new Error('the study of this job no longer exists')
     const [a, b] = await Promise.all([study.lobeAId, study.lobeBId].map(id => db.select().from(schema.lobes).where(eq(schema.lobes.id, id)).get()))
     if (!a || !b) throw new Error('a lobe of this study no longer exists')
-    const input = study.input as unknown as StudyInput & { densityA: number, densityB: number }
+    const input = study.input
     const propsA = a.properties as unknown as MassProperties
     const orbitA = input.orbit.kind === 'bound' ? input.orbit.semiMajorAxis : undefined
     const keys = studyMeshKeys(study.cacheKey)

@@ -1,4 +1,5 @@
 import { z } from 'zod'
+import type { ContactStudyResult } from '#shared/geometry/contactStudy'
 
 const vec3 = z.tuple([z.number(), z.number(), z.number()])
 const unit = (what: string) => vec3.refine(v => v.every(Number.isFinite) && Math.hypot(...v) > 1e-12, `${what} must be a non-zero vector`)
@@ -77,6 +78,15 @@ export const studyInputSchema = z.object({
 })
 
 export type StudyInput = z.infer<typeof studyInputSchema>
+
+/** A study's input as stored: the densities filled in from the lobes when the request left them out. */
+export type StoredStudyInput = StudyInput & { densityA: number, densityB: number }
+
+/** A finished study's result as stored and served (SI units, contact frame); the union mesh is a file. */
+export type StudyResult = Omit<ContactStudyResult, 'unionMesh'> & { unionStored: boolean }
+
+/** `POST /api/studies/:id/merged-lobe` body: the new lobe's name (default: both lobes' names and the study). */
+export const mergedLobeSchema = z.object({ name: z.string().trim().min(1).max(120).optional() })
 
 export const studyListQuerySchema = z.object({
   lobe: z.coerce.number().int().positive().optional(),

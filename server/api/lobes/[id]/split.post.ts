@@ -1,27 +1,19 @@
 import { randomUUID } from 'node:crypto'
 import { eq } from 'drizzle-orm'
 import type { Lobe } from '../../../db/schema'
-import { z } from 'zod'
 import { idParamSchema } from '#shared/types/account'
+import { lobeSplitSchema } from '#shared/types/lobes'
 
-const vec3 = z.tuple([z.number(), z.number(), z.number()])
-const body = z.object({
-  /**
-   * Cutting plane: point in METRES in the lobe's file axes and origin (SI at the API, also for lobes
-   * uploaded in km), normal any non-zero vector; default: the neck found along the long principal axis.
-   */
-  plane: z.object({ point: vec3, normal: vec3.refine(v => Math.hypot(...v) > 0, 'normal must not be zero') }).optional(),
-})
 
 /**
  * Cut a whole-body mesh at its neck into two closed lobes of their own → 201 `{ plane, neckArea, lobes: [A, B] }`, A the larger part.
- * Each part names its parent in `report.origin` (`{ kind: 'cut', lobeId, lobeName, side, plane, neckArea }`)
+ * Each part names its parent in `report.origin` (`{ kind: 'cut' as const, lobeId, lobeName, side, plane, neckArea }`)
  * and carries a 'cut-face' warning: its flat cut face is synthetic.
  */
 export default defineEventHandler(async (event) => {
   const actor = await requireRole(event, 'analyst')
   const { id } = paramsAs(event, idParamSchema)
-  const { plane } = await readBodyAs(event, body)
+  const { plane } = await readBodyAs(event, lobeSplitSchema)
   const db = useDB()
   const lobe = await db.select().from(schema.lobes).where(eq(schema.lobes.id, id)).get()
   if (!lobe) throw notFound('Lobe')
@@ -49,7 +41,7 @@ export default defineEventHandler(async (event) => {
       const side = i === 0 ? '+normal' : '−normal'
       // The parent is known only here: each part keeps it in its report, and says in a warning that
       // its flat cut face was made by the cut, not uploaded.
-      const origin = { kind: 'cut', lobeId: lobe.id, lobeName: lobe.name, side, plane: split.plane, neckArea: split.neckArea }
+      const origin = { kind: 'cut' as const, lobeId: lobe.id, lobeName: lobe.name, side, plane: split.plane, neckArea: split.neckArea }
       made.push(await lobeFromAnalysisMesh(outKeys[i]!, {
         ownerId: actor.id, name: `${lobe.name} — part ${rank === 0 ? 'A' : 'B'}`, fileName: `${lobe.name}-part-${rank === 0 ? 'a' : 'b'}.ply`, density: lobe.density,
         extraWarnings: [cutFaceWarning(lobe, split, side)], origin,

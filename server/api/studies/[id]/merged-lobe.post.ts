@@ -1,16 +1,14 @@
-import { z } from 'zod'
 import { idParamSchema } from '#shared/types/account'
-
-const body = z.object({ name: z.string().trim().min(1).max(120).optional() })
+import { mergedLobeSchema } from '#shared/types/studies'
 
 /**
  * Save the merged body of a finished study as a new lobe (at the merged bulk density, spinning with
- * the inherited spin period and axis) → 201 lobe; `report.origin` = { kind: 'merged', studyId, … }.
+ * the inherited spin period and axis) → 201 lobe; `report.origin` = { kind: 'merged' as const, studyId, … }.
  */
 export default defineEventHandler(async (event) => {
   const actor = await requireRole(event, 'analyst')
   const { id } = paramsAs(event, idParamSchema)
-  const { name } = await readBodyAs(event, body)
+  const { name } = await readBodyAs(event, mergedLobeSchema)
   const row = await loadStudy(useDB(), id)
   const key = studyMeshKeys(row.study.cacheKey).analysis
   const merged = (row.study.result as { merged?: { density?: number, densityA?: number, densityB?: number, spinPeriod?: number | null, spinAxis?: [number, number, number] | null } } | null)?.merged
@@ -23,7 +21,7 @@ export default defineEventHandler(async (event) => {
     : []
   // The merged body keeps the spin it inherited, so its slopes include the rotation.
   const spin = merged.spinPeriod && merged.spinAxis ? { spinPeriodHours: merged.spinPeriod / 3600, spinAxis: merged.spinAxis } : {}
-  const origin = { kind: 'merged', studyId: id, studyTitle: row.study.title, density: merged.density, spinPeriodHours: spin.spinPeriodHours ?? null }
+  const origin = { kind: 'merged' as const, studyId: id, studyTitle: row.study.title, density: merged.density, spinPeriodHours: spin.spinPeriodHours ?? null }
   const { lobe, job } = await lobeFromAnalysisMesh(key, { ownerId: actor.id, name: name ?? `${row.a.name} + ${row.b.name} (merged, study ${id})`, fileName: `study-${id}-merged.ply`, density: merged.density, ...spin, extraWarnings, origin })
   await audit(event, { actorId: actor.id, action: 'lobe.from-study', subjectType: 'lobe', subjectId: lobe.id, detail: { study: id } })
   setResponseStatus(event, 201)
