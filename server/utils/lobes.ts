@@ -5,6 +5,8 @@ import { summarise } from '#shared/geometry'
 import type { MassProperties, Vec3 } from '#shared/geometry'
 import { ALGORITHM_VERSION } from '#shared/utils/version'
 
+import type { SurfaceSummary } from '#shared/types/lobes'
+
 /** Evaluation points for surface fields (faces of a simplified copy; the field is the full polyhedron's). */
 export function fieldPointBudget() {
   return useConfig().fieldPoints
@@ -14,7 +16,7 @@ export function displayFaceBudget() {
   return useConfig().displayFaces
 }
 
-export type { SurfaceSummary } from '#shared/types/lobes'
+export type { SurfaceSummary }
 
 /** Slope beyond which the net acceleration points off the surface, degrees. */
 export const LIFT_OFF_SLOPE_DEG = 90
@@ -152,7 +154,7 @@ export async function startSurfaceJob(db: DB, lobe: Lobe, ownerId?: number | nul
   const done = await reusableJob(db, 'surface-field', inputsHash, ALGORITHM_VERSION)
   let job: Job
   if (done?.result && await (await useMeshStore()).exists(derivedKey(String(done.result.fieldsFile)))) {
-    await db.update(schema.lobes).set({ surface: done.result, surfaceJobId: done.id }).where(eq(schema.lobes.id, lobe.id))
+    await db.update(schema.lobes).set({ surface: done.result as unknown as SurfaceSummary, surfaceJobId: done.id }).where(eq(schema.lobes.id, lobe.id))
     job = done
   }
   else {
@@ -247,7 +249,7 @@ export const surfaceFieldJob: JobKind = {
       fieldsFile,
     }
     // Only lobes that still follow this job take its result, and only while it is not cancelled.
-    await db.update(schema.lobes).set({ surface: surface as unknown as Record<string, unknown> })
+    await db.update(schema.lobes).set({ surface })
       .where(and(eq(schema.lobes.surfaceJobId, job.id), sql`exists (select 1 from jobs where jobs.id = ${job.id} and jobs.status = 'running')`))
     return surface as unknown as Record<string, unknown>
   },

@@ -1,6 +1,6 @@
 import { and, desc, eq, inArray, isNull } from 'drizzle-orm'
 import type { Lobe, Study } from '../db/schema'
-import type { StudyInput } from '#shared/types/studies'
+import type { StudyInput, StudyResult } from '#shared/types/studies'
 import { AU_M } from '#shared/types/studies'
 import { anyPerpendicular, CONTACT_ALGORITHM_VERSION, norm, normalize, rejectFrom, summariseSpread } from '#shared/geometry'
 import type { MassProperties, Vec3 } from '#shared/geometry'
@@ -109,7 +109,7 @@ export const studyJob: JobKind = {
       result.spread = await runSpreadChunks(study, a, b, input, contact.poseB.quaternion, task, (f, stage) => progress(0.6 + 0.4 * f, stage))
     }
     // Studies that still follow this job take its result (a cancelled study keeps its state).
-    await db.update(schema.studies).set({ status: 'done', progress: 1, stage: 'done', result, finishedAt: new Date() })
+    await db.update(schema.studies).set({ status: 'done', progress: 1, stage: 'done', result: result as unknown as StudyResult, finishedAt: new Date() })
       .where(and(eq(schema.studies.jobId, job.id), inArray(schema.studies.status, ['queued', 'running'])))
     return null
   },

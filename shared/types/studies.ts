@@ -1,5 +1,5 @@
 import { z } from 'zod'
-import type { ContactStudyResult } from '#shared/geometry/contactStudy'
+import type { ContactStudyResult } from '#shared/geometry'
 
 const vec3 = z.tuple([z.number(), z.number(), z.number()])
 const unit = (what: string) => vec3.refine(v => v.every(Number.isFinite) && Math.hypot(...v) > 1e-12, `${what} must be a non-zero vector`)
