@@ -58,7 +58,7 @@ export function toManifold(wasm: ManifoldToplevel, mesh: TriMesh, f: UnitFrame, 
   const st = man.status()
   if (st !== 'NoError') {
     man.delete()
-    throw new GeometryError('NOT_MANIFOLD', `${what}: mesh is not a closed 2-manifold (manifold-3d status ${st})`)
+    throw new GeometryError('not-manifold', `${what}: mesh is not a closed 2-manifold (manifold-3d status ${st})`)
   }
   return man
 }

@@ -32,12 +32,12 @@ export interface ContactBvh {
 
 function checkMesh(mesh: TriMesh, what: string): void {
   if (!(mesh.positions instanceof Float64Array) || !(mesh.indices instanceof Uint32Array))
-    throw new GeometryError('BAD_MESH', `${what}: positions must be Float64Array and indices Uint32Array`)
+    throw new GeometryError('bad-mesh', `${what}: positions must be Float64Array and indices Uint32Array`)
   if (mesh.indices.length === 0 || mesh.indices.length % 3 !== 0)
-    throw new GeometryError('BAD_MESH', `${what}: index count ${mesh.indices.length} is not a positive multiple of 3`)
+    throw new GeometryError('bad-mesh', `${what}: index count ${mesh.indices.length} is not a positive multiple of 3`)
   const nv = mesh.positions.length / 3
   for (let i = 0; i < mesh.indices.length; i++) {
-    if (mesh.indices[i] >= nv) throw new GeometryError('BAD_MESH', `${what}: face ${Math.floor(i / 3)} refers to vertex ${mesh.indices[i]} of ${nv}`)
+    if (mesh.indices[i] >= nv) throw new GeometryError('bad-mesh', `${what}: face ${Math.floor(i / 3)} refers to vertex ${mesh.indices[i]} of ${nv}`)
   }
 }
 
@@ -73,7 +73,7 @@ export function buildContactBvh(mesh: TriMesh): ContactBvh {
   })
   const nNodes = left.length
   const nTri = order.length
-  if (nTri !== mesh.indices.length / 3) throw new GeometryError('BVH_FAILED', `buildContactBvh: tree holds ${nTri} of ${mesh.indices.length / 3} faces`)
+  if (nTri !== mesh.indices.length / 3) throw new GeometryError('bvh-failed', `buildContactBvh: tree holds ${nTri} of ${mesh.indices.length / 3} faces`)
   const P = mesh.positions
   const I = mesh.indices
   const tri = new Float64Array(9 * nTri)

@@ -100,8 +100,8 @@ function placementAt(R: Mat3, cA: Vec3, cB: Vec3, u: Vec3, d: number): Vec3 {
  * Centroid separation at which mesh B, brought in along −direction with fixed orientation, first
  * touches mesh A; contact point, normals and B's pose. Exact to floating point (see module doc).
  *
- * @throws GeometryError('BAD_MESH') for malformed meshes, ('ZERO_VECTOR') for a zero direction,
- *   ('NO_CONTACT') when B can travel through A's centroid without touching (cannot happen for
+ * @throws GeometryError('bad-mesh') for malformed meshes, ('zero-vector') for a zero direction,
+ *   ('no-contact') when B can travel through A's centroid without touching (cannot happen for
  *   closed lobes containing their centroids).
  */
 export function firstContact(input: FirstContactInput, options: FirstContactOptions = {}): FirstContact {
@@ -137,7 +137,7 @@ export function firstContact(input: FirstContactInput, options: FirstContactOpti
   const tieTol = 1e-9 * size
   const sw = sweepTOI(bvhA, rb, Float64Array.from(placementAt(R, cA, cB, u, d)), scale(u, -1), tMax, tieTol)
   pairs += sw.pairsVisited
-  if (sw.t === Infinity) throw new GeometryError('NO_CONTACT', 'firstContact: the lobes never touch along this line (are the meshes closed and around their centroids?)')
+  if (sw.t === Infinity) throw new GeometryError('no-contact', 'firstContact: the lobes never touch along this line (are the meshes closed and around their centroids?)')
   const separation = d - sw.t
   // Features at the touch: mean point, mean face normals.
   const fa = new Set<number>(), fb = new Set<number>()

@@ -22,10 +22,10 @@ export const cross = (a: Vec3, b: Vec3): Vec3 => [
   a[0] * b[1] - a[1] * b[0],
 ]
 export const norm = (a: Vec3): number => Math.hypot(a[0], a[1], a[2])
-/** Unit vector along `a`; throws GeometryError('ZERO_VECTOR') for a zero (or non-finite) vector. */
+/** Unit vector along `a`; throws GeometryError('zero-vector') for a zero (or non-finite) vector. */
 export function normalize(a: Vec3, what = 'vector'): Vec3 {
   const n = norm(a)
-  if (!(n > 0) || !Number.isFinite(n)) throw new GeometryError('ZERO_VECTOR', `normalize: ${what} has zero or non-finite length`)
+  if (!(n > 0) || !Number.isFinite(n)) throw new GeometryError('zero-vector', `normalize: ${what} has zero or non-finite length`)
   return [a[0] / n, a[1] / n, a[2] / n]
 }
 /** Angle between two vectors, degrees, in [0, 180]. */
@@ -61,11 +61,11 @@ export const det3 = (m: Mat3): number =>
   m[0][0] * (m[1][1] * m[2][2] - m[1][2] * m[2][1])
   - m[0][1] * (m[1][0] * m[2][2] - m[1][2] * m[2][0])
   + m[0][2] * (m[1][0] * m[2][1] - m[1][1] * m[2][0])
-/** Inverse of a 3×3 matrix; throws GeometryError('SINGULAR_MATRIX') when |det| is ~0. */
+/** Inverse of a 3×3 matrix; throws GeometryError('singular-matrix') when |det| is ~0. */
 export function inverse3(m: Mat3): Mat3 {
   const d = det3(m)
   const s = Math.max(...m.flat().map(Math.abs))
-  if (!(Math.abs(d) > 1e-300 && Math.abs(d) > 1e-14 * s * s * s)) throw new GeometryError('SINGULAR_MATRIX', 'inverse3: matrix is singular')
+  if (!(Math.abs(d) > 1e-300 && Math.abs(d) > 1e-14 * s * s * s)) throw new GeometryError('singular-matrix', 'inverse3: matrix is singular')
   const c = (i: number, j: number) => {
     const r = [0, 1, 2].filter(k => k !== i)
     const q = [0, 1, 2].filter(k => k !== j)
@@ -85,7 +85,7 @@ export const quatIdentity = (): Quat => [1, 0, 0, 0]
 /** Unit quaternion with w ≥ 0 (q and −q are the same rotation). Throws for a zero quaternion. */
 export function quatNormalize(q: Quat): Quat {
   const n = Math.hypot(q[0], q[1], q[2], q[3])
-  if (!(n > 0) || !Number.isFinite(n)) throw new GeometryError('BAD_QUATERNION', 'quatNormalize: quaternion has zero or non-finite length')
+  if (!(n > 0) || !Number.isFinite(n)) throw new GeometryError('bad-quaternion', 'quatNormalize: quaternion has zero or non-finite length')
   const s = q[0] < 0 ? -1 / n : 1 / n
   return [q[0] * s, q[1] * s, q[2] * s, q[3] * s]
 }
@@ -116,7 +116,7 @@ export function quatToMat3(qIn: Quat): Mat3 {
 }
 /** Quaternion (w ≥ 0) of a proper rotation matrix (Shepperd's method). Throws if det ≤ 0. */
 export function mat3ToQuat(m: Mat3): Quat {
-  if (!(det3(m) > 0)) throw new GeometryError('NOT_A_ROTATION', 'mat3ToQuat: matrix is not a proper rotation (det ≤ 0)')
+  if (!(det3(m) > 0)) throw new GeometryError('not-a-rotation', 'mat3ToQuat: matrix is not a proper rotation (det ≤ 0)')
   const tr = m[0][0] + m[1][1] + m[2][2]
   let q: Quat
   if (tr > 0) {

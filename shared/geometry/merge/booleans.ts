@@ -27,8 +27,8 @@ export interface OverlapResult {
 /**
  * Union and intersection of A (already in the contact frame) and B placed by `poseB` and moved a
  * further `overlapDepth` (m, ≥ 0) toward A along −direction.
- * @throws GeometryError('NOT_MANIFOLD') if either mesh is not a closed manifold,
- *   ('BAD_INPUT') for a negative overlap depth.
+ * @throws GeometryError('not-manifold') if either mesh is not a closed manifold,
+ *   ('bad-input') for a negative overlap depth.
  */
 export async function overlapAndUnion(
   meshAContact: TriMesh,
@@ -37,7 +37,7 @@ export async function overlapAndUnion(
   direction: Vec3,
   overlapDepth: number,
 ): Promise<OverlapResult> {
-  if (!(overlapDepth >= 0) || !Number.isFinite(overlapDepth)) throw new GeometryError('BAD_INPUT', 'overlapAndUnion: overlapDepth must be ≥ 0', [{ path: 'overlapDepth', message: 'must be ≥ 0' }])
+  if (!(overlapDepth >= 0) || !Number.isFinite(overlapDepth)) throw new GeometryError('bad-input', 'overlapAndUnion: overlapDepth must be ≥ 0', [{ path: 'overlapDepth', message: 'must be ≥ 0' }])
   const wasm = await loadManifold()
   const u = normalize(direction)
   const pose = { quaternion: poseB.quaternion, translation: [poseB.translation[0] - u[0] * overlapDepth, poseB.translation[1] - u[1] * overlapDepth, poseB.translation[2] - u[2] * overlapDepth] as Vec3 }
@@ -51,7 +51,7 @@ export async function overlapAndUnion(
     is = a.intersect(b)
     for (const [m, w] of [[un, 'union'], [is, 'intersection']] as const) {
       const st = m.status()
-      if (st !== 'NoError') throw new GeometryError('BOOLEAN_FAILED', `overlapAndUnion: ${w} failed (manifold-3d status ${st})`)
+      if (st !== 'NoError') throw new GeometryError('boolean-failed', `overlapAndUnion: ${w} failed (manifold-3d status ${st})`)
     }
     const s3 = f.s ** 3
     return {
@@ -71,7 +71,7 @@ export async function overlapAndUnion(
 /**
  * Cut a closed mesh by the plane {x : x·n = offset} (n unit) into the part on the +n side and the
  * part on the −n side, both closed (manifold-3d `splitByPlane`). Volumes in m³.
- * @throws GeometryError('NOT_MANIFOLD'), ('EMPTY_PART') when the plane misses the body.
+ * @throws GeometryError('not-manifold'), ('empty-part') when the plane misses the body.
  */
 export async function splitMeshByPlane(mesh: TriMesh, normal: Vec3, offset: number): Promise<{ positive: TriMesh, negative: TriMesh, positiveVolume: number, negativeVolume: number }> {
   const wasm = await loadManifold()
@@ -84,7 +84,7 @@ export async function splitMeshByPlane(mesh: TriMesh, normal: Vec3, offset: numb
     m = toManifold(wasm, mesh, f, 'splitMeshByPlane')
     const parts = m.splitByPlane(n, off)
     pos = parts[0]; neg = parts[1]
-    if (pos.isEmpty() || neg.isEmpty()) throw new GeometryError('EMPTY_PART', 'splitMeshByPlane: the plane does not cut the body into two parts')
+    if (pos.isEmpty() || neg.isEmpty()) throw new GeometryError('empty-part', 'splitMeshByPlane: the plane does not cut the body into two parts')
     const s3 = f.s ** 3
     // A plane through mesh vertices leaves float32 near-duplicates on the cut (needle faces of zero
     // area, which upload validation refuses): weld vertices closer than 1e-6 of the half-size.

@@ -164,12 +164,12 @@ export function combineParts(parts: Part[]): Part {
 /**
  * Mass properties, spin state, breakup figures and neck stress of the merged body: lobe A at ρ_A
  * plus B∖A at ρ_B (the lens counted in A), both scaled by one factor for 'conserve-mass'.
- * @throws GeometryError('BAD_INPUT') for a bad mass model or an overlap not smaller than B;
+ * @throws GeometryError('bad-input') for a bad mass model or an overlap not smaller than B;
  *   mass.ts errors for a bad overlap mesh.
  */
 export function mergedBody(input: MergedInput): MergedBody {
   const { propsA, propsB } = input
-  if (input.massModel !== 'conserve-mass' && input.massModel !== 'keep-density') throw new GeometryError('BAD_INPUT', 'mergedBody: massModel must be conserve-mass or keep-density', [{ path: 'massModel', message: 'unknown mass model' }])
+  if (input.massModel !== 'conserve-mass' && input.massModel !== 'keep-density') throw new GeometryError('bad-input', 'mergedBody: massModel must be conserve-mass or keep-density', [{ path: 'massModel', message: 'unknown mass model' }])
   const RB = quatToMat3(input.poseB.quaternion)
   const IA = propsA.inertia
   const IB = rotateTensor(RB, propsB.inertia)
@@ -177,7 +177,7 @@ export function mergedBody(input: MergedInput): MergedBody {
   // The lens at ρ_B, to be taken out of B (it belongs to A).
   const lens = input.overlap && input.overlap.indices.length > 0 ? massProperties(input.overlap, { density: propsB.density }) : null
   const VL = lens ? lens.volume : 0
-  if (VL >= propsB.volume || VL >= propsA.volume) throw new GeometryError('BAD_INPUT', 'mergedBody: the overlap is not smaller than both lobes', [{ path: 'overlap', message: 'overlap volume ≥ a lobe volume' }])
+  if (VL >= propsB.volume || VL >= propsA.volume) throw new GeometryError('bad-input', 'mergedBody: the overlap is not smaller than both lobes', [{ path: 'overlap', message: 'overlap volume ≥ a lobe volume' }])
   const partA: Part = { mass: propsA.mass, centroid: [0, 0, 0], inertia: IA }
   const partB = combineParts(lens ? [{ mass: propsB.mass, centroid: cB, inertia: IB }, { mass: -lens.mass, centroid: lens.centroid, inertia: lens.inertia.map(r => r.map(v => -v)) as Mat3 }] : [{ mass: propsB.mass, centroid: cB, inertia: IB }])
   const mLobes = propsA.mass + propsB.mass

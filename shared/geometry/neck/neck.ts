@@ -73,7 +73,7 @@ export function findNeck(
     return { point: add(cA, scale(u, s)), normal }
   }
   const areaAt = (s: number, tx: number, ty: number): { a: number, c: SectionComponent | null } => {
-    if (opts.signal?.aborted) throw new GeometryError('ABORTED', 'findNeck: cancelled')
+    if (opts.signal?.aborted) throw new GeometryError('aborted', 'findNeck: cancelled')
     evals++
     const pl = planeOf(s, tx, ty)
     const c = sectionComponent(union, pl.point, pl.normal, contactPoint)
@@ -91,7 +91,7 @@ export function findNeck(
   for (let i = 1; i < N - 1; i++) {
     if (as[i] <= as[i - 1] && as[i] <= as[i + 1] && (iMin < 0 || as[i] < as[iMin])) iMin = i
   }
-  if (iMin < 0) throw new GeometryError('NO_NECK', 'findNeck: the section area has no interior minimum between the lobe centroids')
+  if (iMin < 0) throw new GeometryError('no-neck', 'findNeck: the section area has no interior minimum between the lobe centroids')
   // Golden-section on [s_{i-1}, s_{i+1}].
   let a = ss[iMin - 1], b = ss[iMin + 1]
   const gr = (Math.sqrt(5) - 1) / 2

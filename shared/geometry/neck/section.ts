@@ -16,7 +16,7 @@ export interface SectionLoop { points: Vec3[], signedArea: number, perimeter: nu
  * `normal`: closed polylines chained through shared edges. Vertices exactly on the plane are
  * counted on the + side (simulation of simplicity), so every crossing lies strictly inside an edge.
  * Loops are oriented counter-clockwise seen from +normal around material (holes clockwise).
- * @throws GeometryError('OPEN_SECTION') if the chaining finds an open chain (mesh not closed/welded).
+ * @throws GeometryError('open-section') if the chaining finds an open chain (mesh not closed/welded).
  */
 export function sectionByPlane(mesh: TriMesh, point: Vec3, normal: Vec3, faceSubset?: Uint32Array): SectionLoop[] {
   const n = normalize(normal, 'sectionByPlane: normal')
@@ -66,10 +66,10 @@ export function sectionByPlane(mesh: TriMesh, point: Vec3, normal: Vec3, faceSub
       seen.add(k)
       loop.push(pts.get(k)!)
       const nk = next.get(k)
-      if (nk === undefined) throw new GeometryError('OPEN_SECTION', 'sectionByPlane: a section chain does not close (mesh not closed or not welded)')
+      if (nk === undefined) throw new GeometryError('open-section', 'sectionByPlane: a section chain does not close (mesh not closed or not welded)')
       k = nk
       if (k === startKey) break
-      if (seen.has(k)) throw new GeometryError('OPEN_SECTION', 'sectionByPlane: section chains cross (mesh not 2-manifold)')
+      if (seen.has(k)) throw new GeometryError('open-section', 'sectionByPlane: section chains cross (mesh not 2-manifold)')
     }
     let area = 0, per = 0
     for (let i = 0; i < loop.length; i++) {

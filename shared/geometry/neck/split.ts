@@ -33,7 +33,7 @@ function totalArea(mesh: TriMesh, point: Vec3, n: Vec3): number {
 
 /**
  * Split `mesh` at its neck (or at `plane`).
- * @throws GeometryError('NO_NECK') when the area profile along the long axis has no interior
+ * @throws GeometryError('no-neck') when the area profile along the long axis has no interior
  *   minimum between two maxima (not bilobed); manifold/mesh errors from the cut.
  */
 export async function splitAtNeck(mesh: TriMesh, opts: { plane?: { point: Vec3, normal: Vec3 }, scanSteps?: number } = {}): Promise<SplitResult> {
@@ -64,12 +64,12 @@ export async function splitAtNeck(mesh: TriMesh, opts: { plane?: { point: Vec3, 
     const A = profile.map(p => p.area)
     const maxima: number[] = []
     for (let i = 1; i < A.length - 1; i++) if (A[i] >= A[i - 1] && A[i] > A[i + 1]) maxima.push(i)
-    if (maxima.length < 2) throw new GeometryError('NO_NECK', 'splitAtNeck: the section area along the long axis has fewer than two maxima (the body does not look bilobed); give a plane')
+    if (maxima.length < 2) throw new GeometryError('no-neck', 'splitAtNeck: the section area along the long axis has fewer than two maxima (the body does not look bilobed); give a plane')
     maxima.sort((i, j) => A[j] - A[i])
     const [m1, m2] = [Math.min(maxima[0], maxima[1]), Math.max(maxima[0], maxima[1])]
     let iMin = m1
     for (let i = m1; i <= m2; i++) if (A[i] < A[iMin]) iMin = i
-    if (iMin === m1 || iMin === m2) throw new GeometryError('NO_NECK', 'splitAtNeck: no interior area minimum between the two maxima')
+    if (iMin === m1 || iMin === m2) throw new GeometryError('no-neck', 'splitAtNeck: no interior area minimum between the two maxima')
     let a = profile[iMin - 1].position, b = profile[iMin + 1].position
     const gr = (Math.sqrt(5) - 1) / 2
     let x1 = b - gr * (b - a), x2 = a + gr * (b - a)

@@ -88,7 +88,7 @@ export interface NoContact {
 }
 
 function positive(name: string, v: number): void {
-  if (!(v > 0) || !Number.isFinite(v)) throw new GeometryError('BAD_INPUT', `contactKinematics: ${name} must be positive and finite`, [{ path: name, message: 'must be positive' }])
+  if (!(v > 0) || !Number.isFinite(v)) throw new GeometryError('bad-input', `contactKinematics: ${name} must be positive and finite`, [{ path: name, message: 'must be positive' }])
 }
 
 /**
@@ -96,7 +96,7 @@ function positive(name: string, v: number): void {
  * Contact exists iff pericentre q ≤ d (and d ≤ apocentre for bound orbits), both within a relative
  * 1e-6 (a = d, e = 0 is grazing contact from a circular orbit); otherwise `{ contact: false }`.
  * v_r² is clamped at 0 (grazing). B approaches A (radial velocity inward).
- * @throws GeometryError('BAD_INPUT') for non-positive masses, separation or radii, e outside [0,1).
+ * @throws GeometryError('bad-input') for non-positive masses, separation or radii, e outside [0,1).
  */
 export function contactKinematics(input: KinematicsInput): ContactKinematics | NoContact {
   const { massA, massB, separation: d, orbit } = input
@@ -111,7 +111,7 @@ export function contactKinematics(input: KinematicsInput): ContactKinematics | N
   if (orbit.kind === 'bound') {
     const { semiMajorAxis: a, eccentricity: e } = orbit
     positive('orbit.semiMajorAxis', a)
-    if (!(e >= 0 && e < 1)) throw new GeometryError('BAD_INPUT', 'contactKinematics: bound orbit eccentricity must be in [0, 1)', [{ path: 'orbit.eccentricity', message: 'must be in [0, 1)' }])
+    if (!(e >= 0 && e < 1)) throw new GeometryError('bad-input', 'contactKinematics: bound orbit eccentricity must be in [0, 1)', [{ path: 'orbit.eccentricity', message: 'must be in [0, 1)' }])
     q = a * (1 - e)
     const Q = a * (1 + e)
     if (q > d * (1 + tol)) return { contact: false, reason: 'pericentre beyond the contact separation: the lobes never touch', pericentre: q, separation: d, apocentre: Q }
@@ -121,7 +121,7 @@ export function contactKinematics(input: KinematicsInput): ContactKinematics | N
   }
   else if (orbit.kind === 'parabolic') {
     q = orbit.pericentre ?? 0
-    if (!(q >= 0)) throw new GeometryError('BAD_INPUT', 'contactKinematics: pericentre must be ≥ 0', [{ path: 'orbit.pericentre', message: 'must be ≥ 0' }])
+    if (!(q >= 0)) throw new GeometryError('bad-input', 'contactKinematics: pericentre must be ≥ 0', [{ path: 'orbit.pericentre', message: 'must be ≥ 0' }])
     if (q > d * (1 + tol)) return { contact: false, reason: 'pericentre beyond the contact separation: the lobes never touch', pericentre: q, separation: d }
     v2 = 2 * GM / d
     h = Math.sqrt(2 * GM * q)
@@ -129,7 +129,7 @@ export function contactKinematics(input: KinematicsInput): ContactKinematics | N
   else {
     q = orbit.pericentre ?? 0
     positive('orbit.vInfinity', orbit.vInfinity)
-    if (!(q >= 0)) throw new GeometryError('BAD_INPUT', 'contactKinematics: pericentre must be ≥ 0', [{ path: 'orbit.pericentre', message: 'must be ≥ 0' }])
+    if (!(q >= 0)) throw new GeometryError('bad-input', 'contactKinematics: pericentre must be ≥ 0', [{ path: 'orbit.pericentre', message: 'must be ≥ 0' }])
     if (q > d * (1 + tol)) return { contact: false, reason: 'pericentre beyond the contact separation: the lobes never touch', pericentre: q, separation: d }
     v2 = orbit.vInfinity ** 2 + 2 * GM / d
     h = q * Math.sqrt(orbit.vInfinity ** 2 + 2 * GM / q || 0)

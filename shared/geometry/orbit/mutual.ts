@@ -49,7 +49,7 @@ const GL: Record<number, { x: number[], w: number[] }> = (() => {
  * `apex`, collapsed Gauss–Legendre of order n (1..5). Weights sum to the mesh volume.
  */
 export function volumeQuadrature(mesh: TriMesh, apex: Vec3, order: number): { points: Float64Array, weights: Float64Array } {
-  if (!GL[order]) throw new GeometryError('BAD_INPUT', `volumeQuadrature: order must be 1..5, got ${order}`)
+  if (!GL[order]) throw new GeometryError('bad-input', `volumeQuadrature: order must be 1..5, got ${order}`)
   const { x, w } = GL[order]
   const P = mesh.positions, I = mesh.indices
   const nf = I.length / 3
@@ -151,7 +151,7 @@ function integrate(model: PolyhedronModel, densityA: number, q: { points: Float6
   const g: Vec3 = [0, 0, 0]
   const n = q.weights.length
   for (let k = 0; k < n; k++) {
-    if ((k & 1023) === 0 && signal?.aborted) throw new GeometryError('ABORTED', 'mutualPotential: cancelled')
+    if ((k & 1023) === 0 && signal?.aborted) throw new GeometryError('aborted', 'mutualPotential: cancelled')
     p[0] = q.points[3 * k]; p[1] = q.points[3 * k + 1]; p[2] = q.points[3 * k + 2]
     const w = q.weights[k] * densityB
     if (withForce) {
@@ -168,7 +168,7 @@ function integrate(model: PolyhedronModel, densityA: number, q: { points: Float6
  * `poseB` relative to A's centroid (contact frame: x = R x_B + t, origin at `centroidA`).
  * Densities kg m⁻³. Orders n − 1 and n are compared, and n raised while the relative change is
  * above `tolerance` and n < `maxOrder`; W and the force are those of the last order.
- * @throws GeometryError('BAD_INPUT') for orders outside 1..5, ('ABORTED') when `signal` fires.
+ * @throws GeometryError('bad-input') for orders outside 1..5, ('aborted') when `signal` fires.
  */
 export async function mutualPotential(
   meshA: TriMesh, densityA: number, centroidA: Vec3, meshB: TriMesh, densityB: number, poseB: Pose, opts: MutualPotentialOptions = {},
@@ -176,7 +176,7 @@ export async function mutualPotential(
   const first = opts.order ?? 3
   const maxOrder = Math.max(first, opts.maxOrder ?? 5)
   const tolerance = opts.tolerance ?? 1e-4
-  if (!GL[first] || !GL[maxOrder]) throw new GeometryError('BAD_INPUT', `mutualPotential: orders must be 1..5, got ${first}..${maxOrder}`)
+  if (!GL[first] || !GL[maxOrder]) throw new GeometryError('bad-input', `mutualPotential: orders must be 1..5, got ${first}..${maxOrder}`)
   const maxFaces = opts.maxFaces ?? 1000
   const sA = await simplifyClosed(meshA, maxFaces)
   const sB = await simplifyClosed(meshB, maxFaces)

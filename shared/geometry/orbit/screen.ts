@@ -84,9 +84,9 @@ export interface PathwayScreen {
   caveats: string
 }
 
-/** The pathway screen. @throws GeometryError('BAD_INPUT') for non-physical input. */
+/** The pathway screen. @throws GeometryError('bad-input') for non-physical input. */
 export function pathwayScreen(s: ScreenInput): PathwayScreen {
-  const bad = (path: string, m: string) => new GeometryError('BAD_INPUT', `pathwayScreen: ${path} ${m}`, [{ path, message: m }])
+  const bad = (path: string, m: string) => new GeometryError('bad-input', `pathwayScreen: ${path} ${m}`, [{ path, message: m }])
   for (const k of ['semiMajorAxis', 'heliocentricSemiMajorAxis', 'massA', 'massB', 'referenceRadiusA', 'referenceRadiusB', 'contactSeparation'] as const) {
     if (!(s[k] > 0) || !Number.isFinite(s[k])) throw bad(k, 'must be positive')
   }

@@ -104,12 +104,12 @@ export interface StudyOptions {
 }
 
 /**
- * Compose the full contact study. Throws GeometryError('ABORTED') when `signal` fires (checked
+ * Compose the full contact study. Throws GeometryError('aborted') when `signal` fires (checked
  * between stages and inside the long loops), and the stage errors otherwise.
  */
 export async function runContactStudy(input: ContactStudyInput, opts: StudyOptions = {}): Promise<ContactStudyResult> {
   const report = (f: number, s: string) => opts.onProgress?.(f, s)
-  const check = () => { if (opts.signal?.aborted) throw new GeometryError('ABORTED', 'runContactStudy: cancelled') }
+  const check = () => { if (opts.signal?.aborted) throw new GeometryError('aborted', 'runContactStudy: cancelled') }
   const cache = input.cache ?? new ContactBvhCache()
   const depth = input.overlapDepth ?? 0
   report(0, 'mass properties')

@@ -214,7 +214,7 @@ export function summariseSpread(spec: SpreadSpec, samples: SpreadSample[]): Spre
 export async function runSpread(ctx: SpreadContext, signal?: AbortSignal, onSample?: (done: number) => void): Promise<{ summary: SpreadSummary, samples: SpreadSample[] }> {
   const samples: SpreadSample[] = []
   for (let i = 0; i < ctx.spec.samples; i++) {
-    if (signal?.aborted) throw new GeometryError('ABORTED', 'runSpread: cancelled')
+    if (signal?.aborted) throw new GeometryError('aborted', 'runSpread: cancelled')
     samples.push(await runSpreadSample(ctx, i))
     onSample?.(i + 1)
   }

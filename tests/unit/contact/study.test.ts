@@ -54,11 +54,11 @@ describe('runContactStudy', () => {
       expect(r.merged).toHaveProperty(k)
   }, 60_000)
 
-  it('stops with ABORTED when the signal fires', async () => {
+  it('stops with aborted when the signal fires', async () => {
     const ac = new AbortController()
     const p = runContactStudy({ meshA: icosphere(2, 1), meshB: icosphere(2, 1), densityA: 1000, densityB: 1000, direction: [1, 0, 0], orbit: { kind: 'parabolic' }, massModel: 'keep-density' },
       { onProgress: (_f, s) => { if (s === 'kinematics') ac.abort() }, signal: ac.signal })
-    await expect(p).rejects.toMatchObject({ code: 'ABORTED' })
+    await expect(p).rejects.toMatchObject({ code: 'aborted' })
   })
 
   it('no-contact result when the pericentre lies beyond d', async () => {
