@@ -4,7 +4,6 @@ import type { Lobe } from '../../../db/schema'
 import { idParamSchema } from '#shared/types/account'
 import { lobeSplitSchema } from '#shared/types/lobes'
 
-
 /**
  * Cut a whole-body mesh at its neck into two closed lobes of their own → 201 `{ plane, neckArea, lobes: [A, B] }`, A the larger part.
  * Each part names its parent in `report.origin` (`{ kind: 'cut' as const, lobeId, lobeName, side, plane, neckArea }`)
