@@ -1,10 +1,11 @@
 /**
  * `npm run bench [-- name ...]`: runs the benchmark scripts one after another and prints their
- * figures. Names: geometry, api, contact, records, viewer, load, jobs (default: all). Speed and memory targets
+ * figures. Names: geometry, gravity, api, contact, records, viewer, load, jobs (default: all). Speed and memory targets
  * are checked here, never in the test suite.
  */
 const suites: Record<string, () => Promise<unknown>> = {
   geometry: async () => (await import('./geometry')).runGeometryBench(),
+  gravity: async () => (await import('./gravity')).runGravityBench(),
   api: async () => (await import('./api')).runApiBench(),
   contact: async () => (await import('./contact')).runContactBench(),
   records: async () => (await import('./records')).runRecordsBench(),
