@@ -1,16 +1,14 @@
 import { createHash } from 'node:crypto'
 import { and, eq, inArray, sql } from 'drizzle-orm'
 import type { Job, Lobe } from '../db/schema'
-import { summarise } from '#shared/geometry'
+import { TREECODE_DEFAULTS } from '#shared/geometry'
 import type { MassProperties, Vec3 } from '#shared/geometry'
 import { ALGORITHM_VERSION } from '#shared/utils/version'
+import { decodeFaceFields, type FaceFieldsFile } from '#shared/utils/face-fields-file'
+import { decodeDisplayMesh, type DisplayMesh } from '#shared/utils/mesh-binary'
 
 import type { SurfaceSummary } from '#shared/types/lobes'
 
-/** Evaluation points for surface fields (faces of a simplified copy; the field is the full polyhedron's). */
-export function fieldPointBudget() {
-  return useConfig().fieldPoints
-}
 /** Face budget of the display copy sent to the 3D view (analysis always uses the full mesh). */
 export function displayFaceBudget() {
   return useConfig().displayFaces
@@ -119,6 +117,19 @@ export function lobeView(lobe: Lobe, job?: Job & { queuePosition?: number }, own
       G: p.G,
       gravityJob: gravityJobView(job),
     },
+    /**
+     * The surface-field run: which points carry the field (every face centroid: `evaluation.points`
+     * equals `faceCount`), the treecode accuracy and its sampled error, ḡ, the spin used.
+     */
+    surface: surface
+      ? {
+          evaluation: surface.evaluation,
+          accuracy: surface.accuracy ?? null,
+          meanGravity: surface.meanGravity ?? null,
+          spin: surface.spin,
+          conventions: 'potential and geopotentialHeight are of the effective potential U + ½|ω × r|² (spin about the volume centroid); surfaceGravity |g| and escapeSpeedSurface √(2U) are of gravity alone (non-rotating); slopeDeg uses the effective acceleration. GET /api/lobes/:id/fields gives both versions per face.',
+        }
+      : null,
     report: lobe.report,
     /** Cautions about the surface fields (e.g. 'surface-lift-off'); empty when there are none. */
     surfaceCautions: surfaceCautions(surface, p.density),
@@ -137,9 +148,9 @@ export async function latestJobs(db: DB, lobeIds: number[]): Promise<Map<number,
   return new Map(rows.map(r => [r.lobeId, { ...r.job, queuePosition: positions.get(r.job.id) }]))
 }
 
-/** Everything that decides a lobe's surface fields: mesh, units, density, spin, point budget. */
+/** Everything that decides a lobe's surface fields: mesh, units, density, spin, treecode accuracy (every face is evaluated). */
 export function surfaceInputs(lobe: Pick<Lobe, 'sha256' | 'units' | 'density' | 'spinPeriodHours' | 'spinAxis'>) {
-  return { sha256: lobe.sha256, units: lobe.units, density: lobe.density, spinPeriodHours: lobe.spinPeriodHours, spinAxis: lobe.spinAxis, points: fieldPointBudget() }
+  return { sha256: lobe.sha256, units: lobe.units, density: lobe.density, spinPeriodHours: lobe.spinPeriodHours, spinAxis: lobe.spinAxis, accuracy: TREECODE_DEFAULTS.accuracy }
 }
 
 /**
@@ -169,7 +180,10 @@ export async function startSurfaceJob(db: DB, lobe: Lobe, ownerId?: number | nul
   return job
 }
 
-/** The surface-field job: evaluation points, then the field in chunks of ~0.1 s, then one summary. */
+/**
+ * The surface-field job: the fields at every face of the analysis mesh by the treecode, in chunks
+ * of faces spread over the workers, with the sampled direct-sum error estimate; one summary.
+ */
 export const surfaceFieldJob: JobKind = {
   async run({ db, job, task, progress }) {
     const p = job.params as unknown as ReturnType<typeof surfaceInputs> & { lobeId: number }
@@ -177,75 +191,28 @@ export const surfaceFieldJob: JobKind = {
     const source = await db.select().from(schema.lobes).where(eq(schema.lobes.id, p.lobeId)).get()
       ?? await db.select().from(schema.lobes).where(eq(schema.lobes.surfaceJobId, job.id)).get()
     const props = source?.properties as unknown as MassProperties | undefined
-    const faceCount = source?.faceCount ?? 0
     if (!source || !props) throw new Error('the lobe of this surface job no longer exists')
     const analysisKey = derivedMeshKeys(p.sha256, p.units).analysis
-    const ev = await task('field-prepare', { analysisKey, maxPoints: p.points })
-    progress(0.05, 'surface field')
-    const n = ev.points.length / 3
     let omega: Vec3 | null = null
-    let axis: Vec3 | null = null
+    let spin: { periodHours: number, axis: Vec3, axisSource: string } | null = null
     if (p.spinPeriodHours) {
       const a = (p.spinAxis ?? props.principalAxes[2]) as Vec3
       const len = Math.hypot(...a)
-      axis = [a[0] / len, a[1] / len, a[2] / len]
+      const axis: Vec3 = [a[0] / len, a[1] / len, a[2] / len]
       const w = (2 * Math.PI) / (p.spinPeriodHours * 3600)
       omega = [axis[0] * w, axis[1] * w, axis[2] * w]
+      spin = { periodHours: p.spinPeriodHours, axis, axisSource: p.spinAxis ? 'given with the lobe' : 'default: the axis of the largest principal moment' }
     }
-    // Chunks of about 5 M face·point kernels (~0.1 s): another job gets a worker within one chunk.
-    const chunks = Math.max(2, Math.min(4096, n, Math.ceil((n * faceCount) / 5e6)))
-    const per = Math.ceil(n / chunks)
-    const done = new Float64Array(chunks)
-    const results = await Promise.all(Array.from({ length: chunks }, (_, c) => {
-      const s = c * per
-      const e = Math.min(n, s + per)
-      return task('field-chunk', { analysisKey, density: p.density, points: ev.points.slice(3 * s, 3 * e), normals: ev.normals.slice(3 * s, 3 * e), omega }, {
-        onProgress: (f) => {
-          done[c] = f * (e - s)
-          progress(0.05 + 0.93 * (done.reduce((a, b) => a + b, 0) / n), 'surface field')
-        },
-      })
-    }))
-    const join1 = (key: 'gravity' | 'slopeDeg' | 'potential' | 'escape') => {
-      const out = new Float64Array(n)
-      let o = 0
-      for (const r of results) {
-        out.set(r[key], o)
-        o += r[key].length
-      }
-      return out
-    }
-    const gravity = join1('gravity')
-    const slopeDeg = join1('slopeDeg')
-    const potential = join1('potential')
-    const escape = join1('escape')
-    // Geopotential height: (U_eff,max − U_eff)/ḡ, metres above the lowest point of the effective potential's surface.
-    let uMax = -Infinity
-    for (const u of potential) uMax = Math.max(uMax, u)
-    const gMean = summarise(gravity, ev.areas).mean
-    const height = new Float64Array(n)
-    for (let i = 0; i < n; i++) height[i] = (uMax - potential[i]) / gMean
-    const fieldsFile = `fields-${job.id}.json`
-    await (await useMeshStore()).write(derivedKey(fieldsFile), JSON.stringify({
-      jobId: job.id,
-      evaluation: ev.sameAsMesh ? 'mesh' : 'simplified',
-      units: { gravity: 'm s^-2', slopeDeg: 'deg', geopotentialHeight: 'm', potential: 'm^2 s^-2', escapeSpeed: 'm s^-1', positions: 'm' },
-      positions: Array.from(ev.positions),
-      indices: Array.from(ev.indices),
-      gravity: Array.from(gravity),
-      slopeDeg: Array.from(slopeDeg),
-      geopotentialHeight: Array.from(height),
-      potential: Array.from(potential),
-      escapeSpeed: Array.from(escape),
-    }))
+    const full = await computeFullFields(task as RunTask, { analysisKey, faceCount: source.faceCount, density: p.density, omega, spin, accuracy: p.accuracy, onProgress: progress })
+    const fieldsFile = `fields-${job.id}.bin`
+    await (await useMeshStore()).write(derivedKey(fieldsFile), full.bytes)
     const surface: SurfaceSummary = {
-      evaluation: { surface: ev.sameAsMesh ? 'mesh' : 'simplified', points: n, meshFaces: faceCount },
-      surfaceGravity: summarise(gravity, ev.areas),
-      slopeDeg: summarise(slopeDeg, ev.areas),
-      geopotentialHeight: summarise(height, ev.areas),
-      escapeSpeedSurface: summarise(escape, ev.areas),
-      spin: omega ? { periodHours: p.spinPeriodHours!, axis: axis! } : null,
-      liftOff: liftOffShare(slopeDeg, ev.areas),
+      evaluation: { surface: 'mesh', points: full.faceCount, meshFaces: source.faceCount },
+      accuracy: { requested: { potential: full.accuracy / 10, gravity: full.accuracy }, estimated: full.error },
+      meanGravity: full.meanGravity,
+      ...fullFieldSummaries(full),
+      spin: spin ? { periodHours: spin.periodHours, axis: spin.axis } : null,
+      liftOff: liftOffShare(full.fields.slopeDeg, full.areas),
       fieldsFile,
     }
     // Only lobes that still follow this job take its result, and only while it is not cancelled.
@@ -255,15 +222,41 @@ export const surfaceFieldJob: JobKind = {
   },
 }
 
-/** Reads the per-face fields written by the lobe's finished surface job, or null. */
-export async function readFields(lobe: Lobe) {
-  const surface = lobe.surface
+/**
+ * The per-face fields file of the lobe's finished surface job, or null while there is none (fields
+ * written by an older version, on a simplified copy, count as none: the lobe gets a new job).
+ */
+export async function readFields(lobe: Lobe): Promise<FaceFieldsFile | null> {
+  const surface = lobe.surface as unknown as SurfaceSummary | null
   if (!surface?.fieldsFile) return null
   const store = await useMeshStore()
   const key = derivedKey(surface.fieldsFile)
-  if (!(await store.exists(key))) return null
-  const fields = JSON.parse(new TextDecoder().decode(await store.read(key))) as Record<string, unknown>
-  return { lobeId: lobe.id, ...fields }
+  if (!surface.fieldsFile.endsWith('.bin') || !(await store.exists(key))) {
+    await startSurfaceJob(useDB(), lobe)
+    return null
+  }
+  return decodeFaceFields(await store.read(key))
+}
+
+/**
+ * The lobe's display copy and, for each of its faces, the nearest analysis-mesh face (kept next to
+ * the display file), so the 3D view is coloured from the full field.
+ */
+export async function displayFaceMap(lobe: Lobe): Promise<{ display: DisplayMesh, map: Uint32Array }> {
+  const keys = derivedMeshKeys(lobe.sha256, lobe.units)
+  const store = await useMeshStore()
+  const bytes = await store.read(await ensureDisplayMesh(lobe.sha256, lobe.units))
+  const display = decodeDisplayMesh(bytes.buffer.slice(bytes.byteOffset, bytes.byteOffset + bytes.byteLength) as ArrayBuffer)
+  const mapKey = derivedKey(`${keys.key}.display-map.bin`)
+  if (await store.exists(mapKey)) {
+    const b = await store.read(mapKey)
+    const map = new Uint32Array(b.byteLength / 4)
+    new Uint8Array(map.buffer).set(b)
+    if (map.length === display.indices.length / 3) return { display, map }
+  }
+  const map = await runWorkerTask('field-display-map', { analysisKey: keys.analysis, positions: display.positions, indices: display.indices, origin: display.origin }, { interactive: true, priority: 5 })
+  await store.write(mapKey, new Uint8Array(map.buffer, map.byteOffset, map.byteLength))
+  return { display, map }
 }
 
 /** Cache key of a derived result: content hashes, parameters and the algorithm version. */

@@ -21,15 +21,17 @@
  *     through Redis: plain data and typed arrays only (server/workers/wire.ts encodes them).
  */
 import type { AnalysePayload, AnalyseResult, DisplayPayload, SplitPayload, SplitTaskResult } from './mesh-tasks'
-import type { FieldChunkPayload, FieldChunkResult, FieldPreparePayload, FieldPrepareResult } from './field-tasks'
+import type { CoefficientSumsPayload, DisplayMapPayload, FieldChecksPayload, FieldFacesPayload, FieldFacesResult } from './field-tasks'
 import type { SpreadChunkPayload, SpreadChunkResult, StudyPayload, StudyTaskResult } from './contact-tasks'
 
 export interface TaskMap {
   'analyse': { payload: AnalysePayload, result: AnalyseResult }
   'display': { payload: DisplayPayload, result: { ok: true } }
   'split': { payload: SplitPayload, result: SplitTaskResult }
-  'field-prepare': { payload: FieldPreparePayload, result: FieldPrepareResult }
-  'field-chunk': { payload: FieldChunkPayload, result: FieldChunkResult }
+  'field-faces': { payload: FieldFacesPayload, result: FieldFacesResult }
+  'field-checks': { payload: FieldChecksPayload, result: Float64Array }
+  'coefficient-sums': { payload: CoefficientSumsPayload, result: Float64Array }
+  'field-display-map': { payload: DisplayMapPayload, result: Uint32Array }
   'study': { payload: StudyPayload, result: StudyTaskResult }
   'spread-chunk': { payload: SpreadChunkPayload, result: SpreadChunkResult }
 }

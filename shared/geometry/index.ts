@@ -44,6 +44,7 @@ export * from './gravity/treecode'
 export * from './gravity/tree-walk'
 export * from './gravity/coefficients'
 export * from './gravity/face-fields'
+export * from './gravity/display-map'
 // contact search
 export { ContactBvhCache, buildContactBvh } from './contact/bvh'
 export type { ContactBvh } from './contact/bvh'

@@ -86,7 +86,12 @@ export type LobeReport = Omit<ValidationReport, 'faceOrigin'> & {
 
 /** Statistics of a lobe's surface fields (SI: m s⁻², degrees, m, m s⁻¹). */
 export interface SurfaceSummary {
+  /** Which points carry the field: every face centroid of the analysis mesh ('mesh'); 'simplified' only in summaries written before. */
   evaluation: { surface: 'mesh' | 'simplified', points: number, meshFaces: number }
+  /** Treecode accuracy requested (relative) and the error estimated from sampled direct-sum checks (samples, max relative errors of U and |g|). */
+  accuracy?: { requested: { potential: number, gravity: number }, estimated: { samples: number, maxRelativePotential: number, maxRelativeGravity: number, maxRelativeAcceleration: number, method: string } }
+  /** ḡ of the geopotential height, m s⁻² (area-weighted mean of the effective acceleration). */
+  meanGravity?: number
   surfaceGravity: { min: number, max: number, mean: number }
   slopeDeg: { min: number, max: number, mean: number }
   geopotentialHeight: { min: number, max: number, mean: number }

@@ -9,6 +9,12 @@
 
 const MAGIC = 'ISTHFF01'
 
+/**
+ * Columns of the JSON answer: the field names the product has used since before (gravity, slopeDeg,
+ * geopotentialHeight, potential = effective potential, escapeSpeed) and the new ones.
+ */
+export const FIELD_JSON_COLUMNS: (string | [string, string])[] = ['gravity', 'slopeDeg', 'geopotentialHeight', ['potential', 'effectivePotential'], 'escapeSpeed', 'gravitationalPotential', 'effectiveGravity', 'slopeNonRotatingDeg', 'escapeSpeedAlongRotation', 'centroidX', 'centroidY', 'centroidZ', 'area']
+
 export interface FaceFieldsHeader {
   /** Column names in file order, each a float64 array of faceCount values. */
   columns: string[]
@@ -74,7 +80,7 @@ const num = (v: number) => (Number.isFinite(v) ? String(v) : '')
  */
 export function* faceFieldsCsv(file: FaceFieldsFile, comments: string[], rows = 4096): Generator<string> {
   const cols = file.header.columns
-  const unitTag = (u: string) => u.replace(/\^/g, '').replace(/\s+/g, '_').replace(/-/g, 'm')
+  const unitTag = (u: string) => u.replace(/\^/g, '').replace(/\s+/g, '_')
   const names = cols.map(c => `${c}_${unitTag(file.header.units[c] ?? '1')}`)
   yield `${comments.map(c => `# ${c.replace(/[\r\n]+/g, ' ')}`).join('\r\n')}\r\nface,${names.join(',')}\r\n`
   const arrays = cols.map(c => file.column(c))
@@ -126,16 +132,18 @@ export function* faceFieldsPly(positions: Float64Array, indices: Uint32Array, fi
 }
 
 /**
- * JSON of every face's values, streamed: `{ ...meta, "<column>": [v0, v1, ...], ... }`. Numbers
+ * JSON of every face's values, streamed: `{ ...meta, "<name>": [v0, v1, ...], ... }` (a column is
+ * given by its name or as [name in the answer, column]). Numbers
  * are written as the shortest round-trip decimal; non-finite values as null.
  */
-export function* faceFieldsJson(file: FaceFieldsFile, meta: Record<string, unknown>, columns: string[], perChunk = 65536): Generator<string> {
+export function* faceFieldsJson(file: FaceFieldsFile, meta: Record<string, unknown>, columns: (string | [name: string, column: string])[], perChunk = 65536): Generator<string> {
   const head = JSON.stringify(meta)
   yield head.slice(0, -1)
   let sep = head.length > 2 ? ',' : ''
-  for (const c of columns) {
+  for (const entry of columns) {
+    const [name, c] = typeof entry === 'string' ? [entry, entry] : entry
     const a = file.column(c)
-    yield `${sep}${JSON.stringify(c)}:[`
+    yield `${sep}${JSON.stringify(name)}:[`
     sep = ','
     for (let s = 0; s < a.length; s += perChunk) {
       const e = Math.min(a.length, s + perChunk)

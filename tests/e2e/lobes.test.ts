@@ -2,6 +2,7 @@ import { existsSync, readdirSync } from 'node:fs'
 import { join } from 'node:path'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { boxMesh, icosphere, mergeMeshes, twoSphereBody, writeObj, writePly } from '#shared/geometry'
+import { prismPotential } from '../unit/geometry/gravity-references'
 import { Agent } from './support/http'
 import { uploadLobe } from './support/lobes'
 import { startServer, type RunningServer } from './support/server'
@@ -60,9 +61,47 @@ describe('lobe uploads through the API', () => {
     expect(done.properties.surfaceGravity.min).toBeGreaterThan(0)
     expect(done.properties.surfaceGravity.max).toBeGreaterThan(done.properties.surfaceGravity.min)
     expect(done.properties.escapeSpeedSurface.mean).toBeGreaterThan(0)
+    // every face of the analysis mesh carries the field (issue 12, acceptance 4)
+    expect(done.properties.surfaceEvaluation.points).toBe(lobe.faceCount)
+    expect(done.properties.surfaceEvaluation.surface).toBe('mesh')
     const fields = await as.viewer.get(`/api/lobes/${lobe.id}/fields`)
     expect(fields.status).toBe(200)
-    expect(fields.json.gravity.length).toBe(fields.json.indices.length / 3)
+    expect(fields.json.evaluation).toBe('mesh')
+    for (const k of ['gravity', 'slopeDeg', 'geopotentialHeight', 'potential', 'escapeSpeed', 'gravitationalPotential', 'effectiveGravity']) expect(fields.json[k].length, k).toBe(lobe.faceCount)
+    expect(fields.json.units.gravity).toBe('m s^-2')
+    expect(fields.json.conventions.points).toMatch(/every face/)
+    expect(fields.json.accuracy.estimated.maxRelativeGravity).toBeLessThan(1e-7)
+    // the box's field at a face centroid: the closed-form prism potential (Nagy, Papp & Benedek 2000, J. Geodesy 74),
+    // at every face centroid of the 2000 × 1000 × 500 m box (G = 6.67430e-11, density 1500)
+    for (let f = 0; f < lobe.faceCount; f++) {
+      const p: [number, number, number] = [fields.json.centroidX[f], fields.json.centroidY[f], fields.json.centroidZ[f]]
+      expect(fields.json.gravitationalPotential[f] / (6.6743e-11 * 1500) / prismPotential(-1000, 1000, -500, 500, -250, 250, p)).toBeCloseTo(1, 8)
+    }
+    const display = await as.viewer.get(`/api/lobes/${lobe.id}/fields?on=display`)
+    expect(display.status).toBe(200)
+    expect(display.json.gravity.length).toBe(display.json.indices.length / 3)
+    const csv = await as.viewer.get(`/api/lobes/${lobe.id}/fields.csv`)
+    expect(csv.status).toBe(200)
+    const rows = csv.text.trim().split('\r\n').filter((l: string) => !l.startsWith('#'))
+    expect(rows[0]).toMatch(/^face,centroidX_m,centroidY_m,centroidZ_m,area_m2,/)
+    expect(rows.length).toBe(lobe.faceCount + 1)
+    const ply = await as.viewer.get(`/api/lobes/${lobe.id}/fields.ply`)
+    expect(ply.status).toBe(200)
+    expect(ply.text).toMatch(new RegExp(`element face ${lobe.faceCount}[\\s\\S]*property double gravity`))
+    // coefficients: degree 2 in the principal frame equals the mass properties' J2 and C22 (MacCullagh, SCIENCE.md §2)
+    const h = await as.viewer.get(`/api/lobes/${lobe.id}/harmonics?degree=8`)
+    expect(h.status).toBe(200)
+    for (const k of ['degree', 'referenceRadius', 'GM', 'frame', 'normalization', 'C', 'S', 'Cbar', 'Sbar']) expect(h.json).toHaveProperty(k)
+    expect(h.json.degree).toBe(8)
+    expect(-h.json.C[2][0] / done.properties.J2).toBeCloseTo(1, 10)
+    expect(h.json.C[2][2] / done.properties.C22).toBeCloseTo(1, 10)
+    expect(h.json.Cbar[2][0] / h.json.C[2][0]).toBeCloseTo(1 / Math.sqrt(5), 12)
+    const txt = await as.viewer.get(`/api/lobes/${lobe.id}/harmonics?degree=4&format=txt`)
+    expect(txt.text).toMatch(/reference radius R = .* m; GM = /)
+    expect(txt.text).toMatch(/normalization: /)
+    const hcsv = await as.viewer.get(`/api/lobes/${lobe.id}/harmonics?degree=4&format=csv`)
+    expect(hcsv.text.split('\r\n').filter((l: string) => /^\d/.test(l)).length).toBe(15)
+    expect((await as.viewer.get(`/api/lobes/${lobe.id}/harmonics?degree=500`)).status).toBe(422)
   })
 
   it('gives the same properties for PLY (binary) and OBJ of the same sphere, and scales with density without re-reading', async () => {

@@ -1,21 +1,39 @@
+import { Readable } from 'node:stream'
 import { eq } from 'drizzle-orm'
 import { idParamSchema } from '#shared/types/account'
+import { lobeFieldsQuerySchema } from '#shared/types/gravity'
+import { FIELD_JSON_COLUMNS, faceFieldsJson } from '#shared/utils/face-fields-file'
 
 /**
- * Per-face surface fields of the evaluation surface (the faces and vertices it lists; metres, file
- * frame): gravity (m s⁻²), slopeDeg, geopotentialHeight (m), potential (m² s⁻²), escapeSpeed
- * (m s⁻¹). 409 while the job is still running.
+ * Per-face surface fields. Default (`on=mesh`): one value per face of the analysis mesh, row i =
+ * face i, at its centroid (`evaluation: "mesh"`), streamed; units and conventions in the answer.
+ * `on=display`: the display copy (positions in metres, file frame) with each display face coloured
+ * by the value of the nearest analysis face — for the 3D view. 409 while the job is still running.
  */
 export default defineEventHandler(async (event) => {
   await requireRole(event, 'viewer')
   const { id } = paramsAs(event, idParamSchema)
+  const { on } = queryAs(event, lobeFieldsQuerySchema)
   const db = useDB()
   const lobe = await db.select().from(schema.lobes).where(eq(schema.lobes.id, id)).get()
   if (!lobe) throw notFound('Lobe')
-  const fields = await readFields(lobe)
-  if (!fields) {
+  const file = await readFields(lobe)
+  if (!file) {
     const job = (await latestJobs(db, [id])).get(id)
     throw createError({ status: 409, statusText: 'Conflict', message: 'The surface fields are not ready yet', data: { gravityJob: job ? { id: job.id, status: job.status, progress: job.progress } : null } })
   }
-  return fields
+  const { columns: _c, ...meta } = file.header
+  if (on === 'display') {
+    const { display, map } = await displayFaceMap(lobe)
+    const pick = (name: string) => Array.from(map, f => file.column(name)[f]!)
+    const positions = Array.from(display.positions, (v, i) => v + display.origin[i % 3]!)
+    return {
+      lobeId: id, on: 'display', evaluation: 'mesh', faceCount: file.faceCount, displayFaces: map.length,
+      note: 'each display face shows the value of the nearest analysis-mesh face (the field is computed at every analysis face)',
+      units: meta.units, positions, indices: Array.from(display.indices),
+      gravity: pick('gravity'), slopeDeg: pick('slopeDeg'), geopotentialHeight: pick('geopotentialHeight'),
+    }
+  }
+  setResponseHeader(event, 'content-type', 'application/json; charset=utf-8')
+  return sendStream(event, Readable.from(faceFieldsJson(file, { lobeId: id, ...meta, points: file.faceCount }, FIELD_JSON_COLUMNS)))
 })
