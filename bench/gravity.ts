@@ -71,7 +71,7 @@ async function fieldsRun(workers: Worker[], mesh: TriMesh, omega: Vec3 | null, a
   return { build: t1 - t0, evaluate: t2 - t1, fields, points, nodes: tree.nodeRadius.length, momentsMB: tree.moments.byteLength / 1e6 }
 }
 
-async function fieldsBench(workers: Worker[], name: string, mesh: TriMesh, target: number, errorTarget: number | null, accuracy = TREECODE_DEFAULTS.accuracy) {
+async function fieldsBench(workers: Worker[], name: string, mesh: TriMesh, target: number, errorTarget: number | null, accuracy: number = TREECODE_DEFAULTS.accuracy) {
   const nf = mesh.indices.length / 3
   const omega: Vec3 = [0, 0, (2 * Math.PI) / (6 * 3600)]
   const runs = []
