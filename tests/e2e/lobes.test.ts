@@ -64,6 +64,8 @@ describe('lobe uploads through the API', () => {
     // every face of the analysis mesh carries the field (issue 12, acceptance 4)
     expect(done.properties.surfaceEvaluation.points).toBe(lobe.faceCount)
     expect(done.properties.surfaceEvaluation.surface).toBe('mesh')
+    expect(done.surface.evaluation.points).toBe(lobe.faceCount)
+    expect(done.surface.meanGravity).toBeGreaterThan(0)
     const fields = await as.viewer.get(`/api/lobes/${lobe.id}/fields`)
     expect(fields.status).toBe(200)
     expect(fields.json.evaluation).toBe('mesh')
