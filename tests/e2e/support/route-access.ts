@@ -50,6 +50,9 @@ export const ROUTE_ACCESS: Record<string, Access> = {
   'DELETE /api/lobes/:id': 'analyst',
   'GET /api/lobes/:id/mesh': 'viewer',
   'GET /api/lobes/:id/fields': 'viewer',
+  'GET /api/lobes/:id/fields.csv': 'viewer',
+  'GET /api/lobes/:id/fields.ply': 'viewer',
+  'GET /api/lobes/:id/harmonics': 'viewer',
   'GET /api/lobes/:id/export.json': 'viewer',
   'GET /api/lobes/:id/export.csv': 'viewer',
 
