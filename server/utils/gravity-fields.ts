@@ -60,8 +60,9 @@ export interface FullFieldsOptions {
 export async function computeFullFields(run: RunTask, opts: FullFieldsOptions): Promise<FullFieldsResult> {
   const n = opts.faceCount
   const accuracy = opts.accuracy ?? TREECODE_DEFAULTS.accuracy
-  // ~20 000 faces per chunk (well under a second each once the tree is built), at least one per worker
-  const chunks = Math.max(2, Math.min(512, Math.ceil(n / 20_000)))
+  // ~2 000 faces per chunk (~0.1–0.3 s once a worker has built the tree, which its first chunk
+  // does): other jobs get a worker within one chunk's time
+  const chunks = Math.max(2, Math.min(4096, Math.ceil(n / 2000)))
   const per = Math.ceil(n / chunks)
   const fields = Object.fromEntries(FACE_FIELD_KEYS.map(k => [k, new Float64Array(n)])) as FaceFields
   const centroid = [new Float64Array(n), new Float64Array(n), new Float64Array(n)] as const
