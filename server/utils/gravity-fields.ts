@@ -71,7 +71,7 @@ export async function computeFullFields(run: RunTask, opts: FullFieldsOptions): 
   const report = () => opts.onProgress?.(0.02 + 0.9 * (done.reduce((a, b) => a + b, 0) / n), 'surface field')
   const idx = sampleIndices(n, FIELD_CHECK_SAMPLES)
   const checks = run('field-checks', { analysisKey: opts.analysisKey, density: opts.density, indices: idx })
-  await Promise.all(Array.from({ length: chunks }, async (_, c) => {
+  const runChunk = async (c: number) => {
     const start = c * per, end = Math.min(n, start + per)
     if (end <= start) return
     const part = await run('field-faces', { analysisKey: opts.analysisKey, density: opts.density, omega: opts.omega, accuracy, start, end }, {
@@ -82,7 +82,12 @@ export async function computeFullFields(run: RunTask, opts: FullFieldsOptions): 
       centroid[0][start + i] = part.centroids[3 * i]!; centroid[1][start + i] = part.centroids[3 * i + 1]!; centroid[2][start + i] = part.centroids[3 * i + 2]!
     }
     areas.set(part.areas, start)
-  }))
+  }
+  // The first chunk alone: one worker builds its tree while the other stays free; then the rest
+  // (the other worker builds its own tree with its first chunk, while the first one keeps taking
+  // short chunks), so other jobs never wait for two tree builds at once.
+  await runChunk(0)
+  await Promise.all(Array.from({ length: chunks - 1 }, (_, c) => runChunk(c + 1)))
   opts.onProgress?.(0.93, 'direct-sum checks')
   const error = compareWithDirect(await checks, idx, fields.gravitationalPotential, null, fields.gravity)
   const { height, meanGravity } = geopotentialHeight(fields.effectivePotential, fields.effectiveGravity, areas)
