@@ -7,7 +7,7 @@ import { startServer } from '../tests/e2e/support/server'
 
 const count = Number(process.argv[2] ?? 3000)
 const seed = Number(process.argv[3] ?? 1)
-const server = await startServer({ ISTHMUS_DEMO: '1', ISTHMUS_FIELD_POINTS: '100', ISTHMUS_MAX_UPLOAD_MB: '1' })
+const server = await startServer({ ISTHMUS_DEMO: '1', ISTHMUS_MAX_UPLOAD_MB: '1' })
 let bad = 0
 try {
   const analyst = new Agent(server.url)

@@ -53,8 +53,6 @@ export interface IsthmusConfig {
   migrationsDir?: string
   /** Demo mode seeds the demo contact study too (`ISTHMUS_DEMO_STUDY`, default on). */
   demoStudy: boolean
-  /** Evaluation points of a lobe's surface fields (at least 100). */
-  fieldPoints: number
   /** Face budget of the display copy sent to the 3D view (at least 1000). */
   displayFaces: number
   /** Worker threads: `ISTHMUS_WORKERS`, else the number of cores; between 1 and 8. */
@@ -143,7 +141,6 @@ export function useConfig(): IsthmusConfig {
     trustProxy: process.env.ISTHMUS_TRUST_PROXY === '1',
     migrationsDir: process.env.ISTHMUS_MIGRATIONS_DIR || undefined,
     demoStudy: process.env.ISTHMUS_DEMO_STUDY !== '0',
-    fieldPoints: Math.max(100, tuning('ISTHMUS_FIELD_POINTS', 5000)),
     displayFaces: Math.max(1000, tuning('ISTHMUS_DISPLAY_FACES', 300_000)),
     workers: Math.max(1, Math.min(tuning('ISTHMUS_WORKERS', availableParallelism()), 8)),
     workersDir: process.env.ISTHMUS_WORKERS_DIR || undefined,
