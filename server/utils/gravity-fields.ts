@@ -115,13 +115,10 @@ export function fullFieldSummaries(r: FullFieldsResult) {
 }
 
 /**
- * A lobe and its per-face fields for an export route (viewer; token exports are audited as the
- * other lobe exports).
- * @throws 404 when the lobe does not exist, 409 while its fields are being computed
+ * A lobe and its finished per-face fields.
+ * @throws 404 when the lobe does not exist, 409 (with the field job's state) while they are computed
  */
-export async function lobeFieldsForExport(event: H3Event, format: 'csv' | 'ply') {
-  const actor = await requireRole(event, 'viewer')
-  const { id } = paramsAs(event, idParamSchema)
+export async function readyLobeFields(id: number) {
   const db = useDB()
   const lobe = await db.select().from(schema.lobes).where(eq(schema.lobes.id, id)).get()
   if (!lobe) throw notFound('Lobe')
@@ -130,6 +127,18 @@ export async function lobeFieldsForExport(event: H3Event, format: 'csv' | 'ply')
     const job = (await latestJobs(db, [id])).get(id)
     throw createError({ status: 409, statusText: 'Conflict', message: 'The surface fields are not ready yet', data: { gravityJob: job ? { id: job.id, status: job.status, progress: job.progress } : null } })
   }
+  return { lobe, file }
+}
+
+/**
+ * A lobe and its per-face fields for an export route (viewer; token exports are audited as the
+ * other lobe exports).
+ * @throws 404 when the lobe does not exist, 409 while its fields are being computed
+ */
+export async function lobeFieldsForExport(event: H3Event, format: 'csv' | 'ply') {
+  const actor = await requireRole(event, 'viewer')
+  const { id } = paramsAs(event, idParamSchema)
+  const { lobe, file } = await readyLobeFields(id)
   if (actor.via === 'token') await audit(event, { actorId: actor.id, action: 'lobe.exported', subjectType: 'lobe', subjectId: id, detail: { format: `fields-${format}`, token: actor.tokenId } })
   return { lobe, file }
 }

@@ -14,8 +14,6 @@ export function displayFaceBudget() {
   return useConfig().displayFaces
 }
 
-export type { SurfaceSummary }
-
 /** Slope beyond which the net acceleration points off the surface, degrees. */
 export const LIFT_OFF_SLOPE_DEG = 90
 

@@ -1,5 +1,4 @@
 import { Readable } from 'node:stream'
-import { eq } from 'drizzle-orm'
 import { idParamSchema } from '#shared/types/account'
 import { lobeFieldsQuerySchema } from '#shared/types/gravity'
 import { FIELD_JSON_COLUMNS, faceFieldsJson } from '#shared/utils/face-fields-file'
@@ -14,14 +13,7 @@ export default defineEventHandler(async (event) => {
   await requireRole(event, 'viewer')
   const { id } = paramsAs(event, idParamSchema)
   const { on } = queryAs(event, lobeFieldsQuerySchema)
-  const db = useDB()
-  const lobe = await db.select().from(schema.lobes).where(eq(schema.lobes.id, id)).get()
-  if (!lobe) throw notFound('Lobe')
-  const file = await readFields(lobe)
-  if (!file) {
-    const job = (await latestJobs(db, [id])).get(id)
-    throw createError({ status: 409, statusText: 'Conflict', message: 'The surface fields are not ready yet', data: { gravityJob: job ? { id: job.id, status: job.status, progress: job.progress } : null } })
-  }
+  const { lobe, file } = await readyLobeFields(id)
   const { columns: _c, ...meta } = file.header
   if (on === 'display') {
     const { display, map } = await displayFaceMap(lobe)
